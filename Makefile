@@ -1,0 +1,40 @@
+# confspec: every target creates .venv and installs what it needs, so a fresh clone works.
+PYTHON ?= python3
+VENV   := .venv
+PY     := $(VENV)/bin/python
+PIP    := $(PY) -m pip --disable-pip-version-check -q
+
+.PHONY: test demo bench docs lint typecheck clean
+
+$(PY):
+	$(PYTHON) -m venv $(VENV)
+
+# Installs are stamped by the pyproject they came from, so an edit re-installs.
+$(VENV)/.dev-installed: pyproject.toml | $(PY)
+	$(PIP) install -e ".[dev,tables,sql,dask,docs]"
+	touch $@
+
+$(VENV)/.demo-installed: pyproject.toml | $(PY)
+	$(PIP) install -e ".[tables]"
+	touch $@
+
+lint: $(VENV)/.dev-installed
+	$(PY) -m ruff check confspec tests benchmarks examples
+
+typecheck: $(VENV)/.dev-installed
+	$(PY) -m mypy --strict confspec
+
+test: lint typecheck
+	$(PY) -m pytest
+
+demo: $(VENV)/.demo-installed
+	$(PY) examples/demo.py
+
+bench: $(VENV)/.dev-installed
+	$(PY) benchmarks/bench_parse.py
+
+docs: $(VENV)/.dev-installed
+	$(PY) -m mkdocs build --strict
+
+clean:
+	rm -rf $(VENV) site build dist .pytest_cache .mypy_cache .ruff_cache .hypothesis

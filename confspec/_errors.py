@@ -1,0 +1,157 @@
+"""One error hierarchy for everything confspec refuses.
+
+Every error carries a stable kebab-case ``code`` (listed once, in :data:`ERROR_CODES`),
+a human message, and where it applies the 0-based ``position`` in the input text.
+``str(error)`` renders the message, the input and a caret under the offending character.
+"""
+
+from __future__ import annotations
+
+import unicodedata
+from dataclasses import dataclass
+
+__all__ = [
+    "ERROR_CODES",
+    "ConfspecError",
+    "ConfspecPhysicsError",
+    "ConfspecSyntaxError",
+    "ErrorCode",
+]
+
+
+@dataclass(frozen=True, slots=True)
+class ErrorCode:
+    """A documented error code: what triggers it and how to fix the data."""
+
+    code: str
+    kind: str  # "syntax" (notation) or "physics" (consistency)
+    trigger: str
+    fix: str
+
+
+def _codes(*rows: tuple[str, str, str, str]) -> dict[str, ErrorCode]:
+    table = {row[0]: ErrorCode(*row) for row in rows}
+    assert len(table) == len(rows), "duplicate error code"
+    return table
+
+
+#: Every code confspec can report. The docs' error table is generated from this mapping.
+ERROR_CODES: dict[str, ErrorCode] = _codes(
+    ("empty", "syntax", "The text is empty or only whitespace.",
+     "Fill the cell, or treat empty cells as missing before validating."),
+    ("too-long", "syntax", "The text is longer than the input limit (4,096 characters).",
+     "A configuration is short; the cell probably holds something else."),
+    ("syntax", "syntax", "The text does not follow the configuration or species notation.",
+     "Read the caret and the expected tokens; see the notation reference."),
+    ("mojibake", "syntax", "UTF-8 text was decoded as Latin-1/Windows-1252 (e.g. '2pâ¶', '1sÂ²').",
+     "Re-read the file as UTF-8, or use the CLI's --repair-text."),
+    ("uppercase-subshell", "syntax",
+     "A subshell letter is upper case ('2P6'); it could be a term symbol such as '5D4'.",
+     "Write subshell letters in lower case, or pass accept_uppercase=True when the column "
+     "holds no term symbols."),
+    ("ambiguous-run-together", "syntax",
+     "Text without separators ('2p110s1') can be split into subshells in more than one way, "
+     "or only in an unusual way.",
+     "Put spaces between subshells."),
+    ("ambiguous-hole", "syntax",
+     "A plain dash before a number ('2p-1') may be a separator or a hole.",
+     "Write holes with an explicit marker: '2p^-1', '2p^{-1}', '2p⁻¹' or '2p(-1)'."),
+    ("misplaced-core", "syntax",
+     "A noble-gas core appears after the first subshell (often two configurations in one cell).",
+     "Keep one configuration per cell, with the core first."),
+    ("invalid-subshell", "physics",
+     "A subshell that cannot exist: n < 1, l ≥ n ('2d', '1p'), or an unknown letter ('3j').",
+     "Check the principal number and the letter (s p d f g h i k ...; j is skipped)."),
+    ("pauli-limit", "physics",
+     "More electrons than the subshell holds: 2(2l+1) for nl ('2p7', '3d11').",
+     "Correct the occupancy."),
+    ("duplicate-subshell", "physics", "The same subshell is written twice ('2p3 2p2').",
+     "Write each subshell once, with its total occupancy."),
+    ("unknown-core", "physics",
+     "A bracketed core that is not a noble gas ('[Xx]', '[Fe]').",
+     "Use [He], [Ne], [Ar], [Kr], [Xe], [Rn] or [Og]."),
+    ("core-overlap", "physics",
+     "An occupancy for a subshell the core already fills ('[Ar] 3p6 4s1'), written without "
+     "a hole marker.",
+     "Drop the subshell, or write the change as a hole ('[Ar] 3p^-1 4s2')."),
+    ("hole-without-reference", "physics",
+     "A hole ('2p^-1') with no core or reference species that fills that subshell.",
+     "Give the core ('[Ne] 2p^-1') or the species the hole refers to."),
+    ("hole-exceeds", "physics",
+     "A hole removes more electrons than the subshell holds ('[He] 1s^-3').",
+     "Correct the hole count."),
+    ("unknown-element", "physics", "The element symbol is not one of Z = 1–118.",
+     "Check the symbol's spelling and letter case ('Fe', not 'FE')."),
+    ("impossible-charge", "physics",
+     "The charge leaves a negative number of electrons ('He3+') or is beyond −4.",
+     "Correct the charge."),
+    ("electron-count", "physics",
+     "The configuration does not hold Z − charge electrons for the species of the record.",
+     "Correct the configuration or the species."),
+    ("non-canonical", "physics",
+     "Strict mode only: the text is valid but not written in the canonical notation.",
+     "Store the canonical spelling given in the message (confspec normalize)."),
+    ("unknown-option", "syntax",
+     "A formatting option (style, core, order) that confspec does not know.",
+     "Use one of the documented values."),
+)
+
+
+def _display_width(text: str) -> int:
+    return sum(2 if unicodedata.east_asian_width(ch) in "WF" else 1 for ch in text)
+
+
+def _printable(text: str) -> str:
+    """Replace control characters one-for-one so the caret stays aligned."""
+    return "".join(" " if ch == "\t" else ("?" if unicodedata.category(ch) == "Cc" else ch)
+                   for ch in text)
+
+
+class ConfspecError(ValueError):
+    """The root of every error confspec raises on bad input."""
+
+    kind = "error"
+
+    def __init__(self, code: str, message: str, *, position: int | None = None,
+                 text: str | None = None) -> None:
+        if code not in ERROR_CODES:  # pragma: no cover - a programming error, caught by tests
+            raise KeyError(f"undocumented error code {code!r}")
+        self.code = code
+        self.message = message
+        self.position = position
+        self.text = text
+        super().__init__(self.render())
+
+    def render(self) -> str:
+        """Message, then the input with a caret under the offending character."""
+        head = f"{self.message} [{self.code}]"
+        if self.text is None:
+            return head
+        shown = self.text if len(self.text) <= 200 else self.text[:200] + "…"
+        lines = [head, "    " + _printable(shown)]
+        if self.position is not None and self.position <= len(shown):
+            lines.append("    " + " " * _display_width(_printable(shown[: self.position])) + "^")
+        return "\n".join(lines)
+
+    def __reduce__(self) -> tuple[object, ...]:  # picklable across processes (CLI --jobs)
+        return (_rebuild, (type(self), self.code, self.message, self.position, self.text))
+
+    def __repr__(self) -> str:
+        return f"{type(self).__name__}({self.code!r}, {self.message!r}, position={self.position})"
+
+
+def _rebuild(cls: type[ConfspecError], code: str, message: str, position: int | None,
+             text: str | None) -> ConfspecError:
+    return cls(code, message, position=position, text=text)
+
+
+class ConfspecSyntaxError(ConfspecError):
+    """The notation itself is wrong: parsing stops at the first such problem."""
+
+    kind = "syntax"
+
+
+class ConfspecPhysicsError(ConfspecError):
+    """The notation is readable but the content is impossible or inconsistent."""
+
+    kind = "physics"

@@ -1,0 +1,188 @@
+"""One renderer for every notation, driven by small per-style records of templates.
+
+Ordering and core handling are independent of markup: the renderer picks the core and the
+order, then hands each token to the style's templates. Unknown options are a clear error.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass
+from typing import TYPE_CHECKING, Any
+
+from ._errors import ConfspecSyntaxError
+from ._physics import (
+    CORES_LARGEST_FIRST,
+    NOBLE_CORES,
+    Occupancy,
+    filling_key,
+    shell_key,
+    subshell_label,
+)
+
+if TYPE_CHECKING:
+    from ._models import Configuration, Species
+
+_SUPERSCRIPTS = str.maketrans("0123456789+-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻")
+
+
+@dataclass(frozen=True, slots=True)
+class Style:
+    """How one notation writes a core, a subshell with its count, and the gaps between."""
+
+    name: str
+    count: Callable[[int], str]  # occupancy (negative for a hole) -> text after the label
+    separator: str
+    core: str  # template with {symbol}
+    after_core: str  # between the core and the first subshell
+
+
+def _plain(k: int) -> str:
+    return str(k) if k >= 0 else f"^-{-k}"
+
+
+def _caret(k: int) -> str:
+    return f"^{k}" if k >= 0 else f"^-{-k}"
+
+
+def _unicode(k: int) -> str:
+    return str(k).translate(_SUPERSCRIPTS)
+
+
+def _latex(k: int) -> str:
+    return f"^{{{k}}}"
+
+
+def _html(k: int) -> str:
+    return f"<sup>{k}</sup>"
+
+
+_STYLES: dict[str, Style] = {}
+
+
+def register_style(style: Style) -> None:
+    """Add a notation; an existing name is never overwritten."""
+    if style.name in _STYLES:
+        raise ValueError(f"a style named {style.name!r} exists already")
+    _STYLES[style.name] = style
+
+
+for _style in (
+    Style("plain", _plain, " ", "[{symbol}]", " "),
+    Style("caret", _caret, " ", "[{symbol}]", " "),
+    Style("unicode", _unicode, " ", "[{symbol}]", " "),
+    Style("latex", _latex, r"\,", r"[\mathrm{{{symbol}}}]", r"\,"),
+    Style("html", _html, " ", "[{symbol}]", " "),
+    Style("dotted", _plain, ".", "[{symbol}]", "."),
+):
+    register_style(_style)
+
+STYLES = tuple(_STYLES)
+CORE_MODES = ("condense", "expand")
+ORDERS = ("shell", "filling")
+_ORDER_KEYS = {"shell": shell_key, "filling": filling_key}
+
+
+def _option(kind: str, value: str, allowed: Iterable[str]) -> None:
+    allowed = tuple(allowed)
+    if value not in allowed:
+        raise ConfspecSyntaxError(
+            "unknown-option", f"unknown {kind} {value!r}; use one of: " + ", ".join(allowed))
+
+
+def largest_core(occupancies: Iterable[Occupancy]) -> str | None:
+    """The largest noble-gas core whose subshells are all full in the configuration."""
+    have = {(n, l): e for n, l, e in occupancies}
+    for symbol in CORES_LARGEST_FIRST:
+        if all(have.get((n, l)) == e for n, l, e in NOBLE_CORES[symbol]):
+            return symbol
+    return None
+
+
+def render(occupancies: Iterable[Occupancy], *, style: str = "plain", core: str = "condense",
+           order: str = "shell", changes: Iterable[tuple[int, int, int]] = (),
+           core_symbol: str | None = None) -> str:
+    """Render occupancies. ``changes`` are extra (n, l, count) tokens such as holes, and
+    ``core_symbol`` forces a core (used when writing holes against a reference)."""
+    _option("style", style, _STYLES)
+    _option("core", core, CORE_MODES)
+    _option("order", order, ORDERS)
+    fmt = _STYLES[style]
+    occ = list(occupancies)
+    symbol = core_symbol if core_symbol is not None else (
+        largest_core(occ) if core == "condense" else None)
+    inside = {(n, l) for n, l, _ in NOBLE_CORES[symbol]} if symbol else set()
+    tokens = [(n, l, e) for n, l, e in occ if (n, l) not in inside and e]
+    tokens.extend(changes)
+    key = _ORDER_KEYS[order]
+    tokens.sort(key=lambda t: (key(t[0], t[1]), t[2] >= 0))
+    body = fmt.separator.join(f"{subshell_label(n, l)}{fmt.count(e)}" for n, l, e in tokens)
+    if symbol is None:
+        return body
+    head = fmt.core.format(symbol=symbol)
+    return head + fmt.after_core + body if body else head
+
+
+def format_configuration(config: Configuration, *, style: str = "plain", core: str = "condense",
+                         order: str = "shell", holes_relative_to: Any = None) -> str:
+    if holes_relative_to is None:
+        return render(config.occupancies, style=style, core=core, order=order)
+    from ._holes import render_with_holes
+
+    return render_with_holes(config, holes_relative_to, style=style, core=core, order=order)
+
+
+def options_from_spec(spec: str) -> dict[str, str]:
+    """``f"{c:unicode}"``, ``f"{c:latex,expand,filling}"``: any of style, core, order."""
+    options: dict[str, str] = {}
+    for word in spec.replace(":", ",").split(","):
+        word = word.strip()
+        if not word:
+            continue
+        for kind, allowed in (("style", STYLES), ("core", CORE_MODES), ("order", ORDERS)):
+            if word in allowed:
+                options[kind] = word
+                break
+        else:
+            raise ConfspecSyntaxError(
+                "unknown-option", f"unknown format option {word!r}; styles: {', '.join(STYLES)}; "
+                f"core: {', '.join(CORE_MODES)}; order: {', '.join(ORDERS)}")
+    return options
+
+
+_ROMAN = ((50, "L"), (40, "XL"), (10, "X"), (9, "IX"), (5, "V"), (4, "IV"), (1, "I"))
+
+
+def roman(value: int) -> str:
+    out = []
+    for size, numeral in _ROMAN:
+        while value >= size:
+            out.append(numeral)
+            value -= size
+    return "".join(out)
+
+
+SPECIES_STYLES = ("plain", "unicode", "latex", "html", "spectrum", "oxidation")
+
+
+def format_species(species: Species, style: str = "plain") -> str:
+    _option("species style", style, SPECIES_STYLES)
+    q, symbol = species.charge, species.symbol
+    size = "" if abs(q) == 1 else str(abs(q))
+    sign = "+" if q > 0 else "-"
+    if style == "spectrum":
+        return f"{symbol} {roman(q + 1)}" if q >= 0 else f"{symbol}{size}{sign}"
+    if style == "oxidation":
+        if q == 0:
+            return f"{symbol}(0)"
+        return f"{symbol}({'-' if q < 0 else ''}{roman(abs(q))})"
+    if q == 0:
+        return symbol
+    charge = f"{size}{sign}"
+    if style == "unicode":
+        return symbol + charge.translate(_SUPERSCRIPTS)
+    if style == "latex":
+        return f"{symbol}^{{{charge}}}"
+    if style == "html":
+        return f"{symbol}<sup>{charge}</sup>"
+    return symbol + charge

@@ -1,0 +1,329 @@
+"""The lark side: load ``configuration.lark``, build the LALR parser once, lazily.
+
+The transformer runs inside the LALR parser (no tree is built, and errors raised here are
+not wrapped), turning rules into the raw structures of :mod:`confspec._syntax`.
+"""
+
+from __future__ import annotations
+
+import re
+import threading
+from dataclasses import dataclass
+from functools import cache
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+from lark import Lark, Token, Transformer
+from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
+
+from ._errors import ConfspecError, ConfspecSyntaxError
+from ._syntax import (
+    Bare,
+    Closed,
+    Letter,
+    Open,
+    Piece,
+    RawConfiguration,
+    RawCore,
+    Segment,
+    SepKind,
+    Sub,
+    assemble,
+)
+
+GRAMMAR_NAME = "configuration.lark"
+
+
+def grammar_text() -> str:
+    """The grammar, from the installed package or, in a checkout, from ``grammar/``."""
+    packaged = resources.files("confspec").joinpath("grammar", GRAMMAR_NAME)
+    if packaged.is_file():
+        return packaged.read_text(encoding="utf-8")
+    checkout = Path(__file__).resolve().parent.parent / "grammar" / GRAMMAR_NAME
+    return checkout.read_text(encoding="utf-8")
+
+
+# Plain words for the terminals, so errors never show raw names such as NUM or $END.
+_WORDS = {
+    "NUM": "a number", "LETTER": "a subshell letter", "ELEMENT": "an element symbol",
+    "ROMAN": "a Roman numeral", "CORE": "a core such as [Ar]", "SUP": "a superscript number",
+    "SUP_CHARGE": "a superscript charge", "SUP_OPEN": "'<sup>'", "SUP_CLOSE": "'</sup>'",
+    "CARET": "'^'", "LBRACE": "'{'", "RBRACE": "'}'", "LPAR": "'('", "RPAR": "')'",
+    "DOLLAR": "'$'", "DASH": "'-'", "MINUS": "'−'", "PLUS": "'+'",
+    "PUNCT": "a separator", "WS": "a space", "$END": "the end of the text",
+}
+
+
+def _expected_words(names: set[str] | frozenset[str]) -> str:
+    words = sorted({_WORDS.get(name, name.lower()) for name in names})
+    if not words:
+        return "nothing more"
+    return words[0] if len(words) == 1 else ", ".join(words[:-1]) + " or " + words[-1]
+
+
+def _pos(token: Token) -> int:
+    return int(token.start_pos or 0)
+
+
+@dataclass
+class _Body:
+    segments: list[Segment]
+    seps: list[tuple[SepKind, int]]
+
+
+class _ToRaw(Transformer[Token, Any]):
+    """Rule callbacks named after the grammar's rules and aliases.
+
+    One instance is embedded in each LALR parser; the text being parsed and its offset
+    (leading whitespace stripped before parsing) come from a thread-local context.
+    """
+
+    _context = threading.local()
+
+    @property
+    def text(self) -> str:
+        return str(self._context.text)
+
+    @property
+    def offset(self) -> int:
+        return int(self._context.offset)
+
+    def _at(self, token: Token) -> int:
+        return _pos(token) + self.offset
+
+    # -- configuration ---------------------------------------------------------------
+    def configuration(self, children: list[Any]) -> RawConfiguration:
+        core = children[0] if children and isinstance(children[0], RawCore) else None
+        body = children[-1] if children and isinstance(children[-1], _Body) else _Body([], [])
+        return assemble(core, body.segments, body.seps, self.text)
+
+    def bracket_core(self, children: list[Token]) -> RawCore:
+        token = children[0]
+        inner = str(token)[1:-1]
+        inner = re.sub(r"\\(?:mathrm|text|rm|mathit)\s*\{([^{}]*)\}", r"\1", inner)
+        return RawCore(inner.strip(), self._at(token), True)
+
+    def bare_core(self, children: list[Token]) -> RawCore:
+        return RawCore(str(children[0]), self._at(children[0]), False)
+
+    def body(self, children: list[Any]) -> _Body:
+        return _Body(children[0::2], children[1::2])
+
+    def run(self, children: list[Any]) -> tuple[Piece, ...]:
+        num, letter = children[0], children[1]
+        pieces: list[Piece] = [Sub(str(num), self._at(num), str(letter))]
+        for part in children[2:]:
+            pieces.extend(part)
+        return tuple(pieces)
+
+    def bare_count(self, children: list[Token]) -> Bare:
+        return Bare(str(children[0]), self._at(children[0]))
+
+    def open_link(self, children: list[Any]) -> list[Piece]:
+        return [children[0], Letter(str(children[1]), self._at(children[1]))]
+
+    def closed_link(self, children: list[Any]) -> list[Piece]:
+        num = children[1]
+        return [children[0], Sub(str(num), self._at(num), str(children[2]))]
+
+    def tail(self, children: list[Any]) -> list[Piece]:
+        return [children[0]]
+
+    def open_plain(self, children: list[Token]) -> Open:
+        return Open(str(children[0]), self._at(children[0]))
+
+    def open_caret(self, children: list[Token]) -> Open:
+        return Open(str(children[1]), self._at(children[1]), caret=True)
+
+    def open_caret_signed(self, children: list[Any]) -> Open:
+        sign, num = children[1], children[2]
+        return Open(str(num), self._at(num), negative=str(sign) != "+", caret=True)
+
+    def _closed(self, signed: tuple[int, bool, int]) -> Closed:
+        value, negative, pos = signed
+        return Closed(value, pos, negative)
+
+    def occ_braced(self, children: list[Any]) -> Closed:
+        return self._closed(children[2])
+
+    def occ_caret_paren(self, children: list[Any]) -> Closed:
+        return self._closed(children[2])
+
+    def occ_paren(self, children: list[Any]) -> Closed:
+        return self._closed(children[1])
+
+    def occ_html(self, children: list[Any]) -> Closed:
+        return self._closed(children[1])
+
+    def occ_math(self, children: list[Any]) -> Closed:
+        return self._closed(next(c for c in children if isinstance(c, tuple)))
+
+    def occ_superscript(self, children: list[Token]) -> Closed:
+        token = children[0]
+        raw = str(token)
+        negative = raw.startswith("⁻")
+        digits = raw.lstrip("⁺⁻").translate(_SUPERSCRIPT_DIGITS)
+        return Closed(int(digits), self._at(token), negative)
+
+    def signed(self, children: list[Any]) -> tuple[int, bool, int]:
+        num = children[-1]
+        negative = len(children) == 2 and str(children[0]) != "+"
+        return int(str(num)), negative, self._at(num)
+
+    def sign(self, children: list[Token]) -> Token:
+        return children[0]
+
+    def sep_space(self, children: list[Token]) -> tuple[SepKind, int]:
+        return ("space", self._at(children[0]))
+
+    def sep_punct(self, children: list[Token]) -> tuple[SepKind, int]:
+        token = next(c for c in children if c.type == "PUNCT")
+        return ("punct", self._at(token))
+
+    def sep_dash(self, children: list[Token]) -> tuple[SepKind, int]:
+        token = next(c for c in children if c.type == "DASH")
+        return ("dash", self._at(token))
+
+    # -- species ----------------------------------------------------------------------
+    def species(self, children: list[Any]) -> tuple[str, int, int, str]:
+        symbol = children[0]
+        charge = children[-1] if isinstance(children[-1], tuple) else (0, "none")
+        return str(symbol), self._at(symbol), charge[0], charge[1]
+
+    def charge_plain(self, children: list[Any]) -> tuple[int, str]:
+        return next(c for c in children if isinstance(c, int)), "charge"
+
+    def charge_superscript(self, children: list[Token]) -> tuple[int, str]:
+        raw = str(children[0])
+        digits = "".join(ch for ch in raw if ch not in "⁺⁻").translate(_SUPERSCRIPT_DIGITS)
+        signs = [ch for ch in raw if ch in "⁺⁻"]
+        if digits and len(signs) > 1:
+            raise ConfspecSyntaxError("syntax", "a charge has one sign",
+                                      position=self._at(children[0]), text=self.text)
+        size = int(digits) if digits else len(signs)
+        return (-size if signs[0] == "⁻" else size), "charge"
+
+    def charge_oxidation(self, children: list[Any]) -> tuple[int, str]:
+        return children[1], "oxidation"
+
+    def charge_spectrum(self, children: list[Token]) -> tuple[int, str]:
+        value = _roman(str(children[0]), self._at(children[0]), self.text)
+        if value < 1:  # pragma: no cover - the lexer admits no empty numeral
+            raise ConfspecSyntaxError("syntax", "a spectrum number starts at I",
+                                      position=self._at(children[0]), text=self.text)
+        return value - 1, "spectrum"
+
+    def charge_number_sign(self, children: list[Any]) -> int:
+        return _signed(int(str(children[0])), children[1])
+
+    def charge_sign_number(self, children: list[Any]) -> int:
+        return _signed(int(str(children[1])), children[0])
+
+    def charge_signs(self, children: list[Any]) -> int:
+        kinds = {str(c) == "+" for c in children}
+        if len(kinds) > 1:
+            raise ConfspecSyntaxError("syntax", "a charge mixes '+' and '-'",
+                                      position=self._at(children[0]), text=self.text)
+        return _signed(len(children), children[0])
+
+    def oxidation_roman(self, children: list[Any]) -> int:
+        numeral = children[-1]
+        value = _roman(str(numeral), self._at(numeral), self.text)
+        return _signed(value, children[0]) if len(children) == 2 else value
+
+    def oxidation_number(self, children: list[Any]) -> int:
+        value = int(str(children[-1]))
+        return _signed(value, children[0]) if len(children) == 2 else value
+
+    def oxidation_number_sign(self, children: list[Any]) -> int:
+        return _signed(int(str(children[0])), children[1])
+
+
+_SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+_ROMAN_VALUES = {"I": 1, "V": 5, "X": 10, "L": 50}
+_ROMAN_RE = re.compile(r"^(?:L?X{0,3}|XL|XC)(?:IX|IV|V?I{0,3})$")
+
+
+def _roman(numeral: str, position: int, text: str) -> int:
+    if not numeral or not _ROMAN_RE.match(numeral):
+        raise ConfspecSyntaxError("syntax", f"{numeral!r} is not a Roman numeral",
+                                  position=position, text=text)
+    total = 0
+    for a, b in zip(numeral, numeral[1:] + " ", strict=True):
+        value = _ROMAN_VALUES[a]
+        total += -value if b != " " and _ROMAN_VALUES[b] > value else value
+    return total
+
+
+def _signed(value: int, sign: Token) -> int:
+    return value if str(sign) == "+" else -value
+
+
+@cache
+def _parser(start: str) -> Lark:
+    # One parser per start rule, built on first use; the transformer runs inside it.
+    return Lark(grammar_text(), parser="lalr", lexer="contextual", start=start,
+                propagate_positions=False, maybe_placeholders=False, transformer=_ToRaw())
+
+
+def _strip(text: str) -> tuple[str, int]:
+    stripped = text.lstrip()
+    offset = len(text) - len(stripped)
+    return stripped.rstrip(), offset
+
+
+def _syntax_error(err: UnexpectedInput, text: str, offset: int, what: str) -> ConfspecError:
+    if isinstance(err, UnexpectedToken):
+        token = err.token
+        if token.type == "$END":
+            return ConfspecSyntaxError(
+                "syntax", f"the {what} ends too early; expected {_expected_words(err.expected)}",
+                position=len(text.rstrip()), text=text)
+        position = _pos(token) + offset
+        if token.type == "CORE":
+            return ConfspecSyntaxError(
+                "misplaced-core", f"core {token!s} after the first subshell: only one core, "
+                "at the start (are two configurations in this cell?)",
+                position=position, text=text)
+        return ConfspecSyntaxError(
+            "syntax", f"unexpected {str(token)!r}; expected {_expected_words(err.expected)}",
+            position=position, text=text)
+    if isinstance(err, UnexpectedCharacters):
+        position = int(err.pos_in_stream or 0) + offset
+        char = text[position] if position < len(text) else ""
+        allowed = set(err.allowed or ())
+        if char == "[" and "CORE" not in allowed:
+            return ConfspecSyntaxError(
+                "misplaced-core", "a core after the first subshell: only one core, at the start "
+                "(are two configurations in this cell?)", position=position, text=text)
+        return ConfspecSyntaxError(
+            "syntax", f"unexpected character {char!r}; expected {_expected_words(allowed)}",
+            position=position, text=text)
+    if isinstance(err, UnexpectedEOF):
+        return ConfspecSyntaxError(
+            "syntax", f"the {what} ends too early; expected {_expected_words(set(err.expected))}",
+            position=len(text.rstrip()), text=text)
+    return ConfspecSyntaxError("syntax", str(err), text=text)  # pragma: no cover
+
+
+def _run(start: str, text: str, what: str) -> Any:
+    stripped, offset = _strip(text)
+    context = _ToRaw._context
+    context.text, context.offset = text, offset
+    try:
+        return _parser(start).parse(stripped)
+    except UnexpectedInput as err:
+        raise _syntax_error(err, text, offset, what) from None
+
+
+def parse_configuration_raw(text: str) -> RawConfiguration:
+    """Text to :class:`RawConfiguration` through the grammar (raises ConfspecSyntaxError)."""
+    result: RawConfiguration = _run("configuration", text, "configuration")
+    return result
+
+
+def parse_species_raw(text: str) -> tuple[str, int, int, str]:
+    """Text to (symbol, symbol position, charge, convention) through the grammar."""
+    result: tuple[str, int, int, str] = _run("species", text, "species")
+    return result

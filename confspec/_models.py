@@ -1,0 +1,380 @@
+"""The frozen value models: Subshell, Configuration, Element, Species, ConfigurationRecord.
+
+A configuration's value is its set of subshell occupancies; the written order, separators,
+core abbreviation and superscripts are notation. Equality and hashing follow the value.
+Models know nothing of lark, the CLI or any adapter: text input is handed to
+:func:`confspec.parse` through a lazy import.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Mapping
+from typing import Any, ClassVar
+
+from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+from pydantic_core import PydanticCustomError
+
+from . import _elements
+from ._errors import ConfspecError, ConfspecPhysicsError
+from ._physics import LETTER_TO_L, SUBSHELL_LETTERS, Occupancy, Parity, pauli_limit
+
+__all__ = ["Configuration", "ConfigurationRecord", "Element", "Species", "Subshell"]
+
+
+def _as_pydantic_error(err: ConfspecError) -> PydanticCustomError:
+    """Carry our stable code into pydantic's ValidationError as the error type."""
+    return PydanticCustomError(err.code, "{message}",
+                               {"message": err.message, "position": err.position})
+
+
+class Subshell(BaseModel):
+    """One nl subshell and its occupancy, e.g. ``3d6``."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    n: int = Field(ge=1, description="principal quantum number")
+    l: int = Field(ge=0, description="orbital angular momentum quantum number")
+    electrons: int = Field(ge=0, description="occupancy")
+
+    @model_validator(mode="before")
+    @classmethod
+    def _from_text(cls, data: Any) -> Any:
+        if isinstance(data, str):
+            try:
+                config = _parse()(data)
+            except ConfspecError as err:
+                raise _as_pydantic_error(err) from None
+            if len(config.subshells) != 1:
+                raise PydanticCustomError("syntax", "expected exactly one subshell")
+            return config.subshells[0]
+        return data
+
+    @model_validator(mode="after")
+    def _check_physics(self) -> Subshell:
+        if self.l >= self.n or self.l >= len(SUBSHELL_LETTERS):
+            raise PydanticCustomError("invalid-subshell", "l must be below n (and below 16)")
+        if self.electrons > pauli_limit(self.l):
+            raise PydanticCustomError(
+                "pauli-limit", "{label} holds at most {limit} electrons",
+                {"label": self.label, "limit": pauli_limit(self.l)})
+        return self
+
+    @property
+    def letter(self) -> str:
+        return SUBSHELL_LETTERS[self.l]
+
+    @property
+    def label(self) -> str:
+        """The subshell without its occupancy, e.g. ``"3d"``."""
+        return f"{self.n}{SUBSHELL_LETTERS[self.l]}"
+
+    @property
+    def capacity(self) -> int:
+        """Pauli limit 2(2l + 1)."""
+        return pauli_limit(self.l)
+
+    @property
+    def is_full(self) -> bool:
+        return self.electrons == pauli_limit(self.l)
+
+    def __str__(self) -> str:
+        return f"{self.label}{self.electrons}"
+
+    def __repr__(self) -> str:
+        return f"Subshell('{self}')"
+
+
+_SUBSHELL_CACHE: dict[Occupancy, Subshell] = {}
+
+
+def make_subshell(n: int, l: int, electrons: int) -> Subshell:
+    """An interned Subshell for an occupancy that is already known to be valid."""
+    key = (n, l, electrons)
+    sub = _SUBSHELL_CACHE.get(key)
+    if sub is None:
+        sub = Subshell.model_construct(n=n, l=l, electrons=electrons)
+        if len(_SUBSHELL_CACHE) < 50_000:
+            _SUBSHELL_CACHE[key] = sub
+    return sub
+
+
+def _parse() -> Any:
+    from ._api import parse
+
+    return parse
+
+
+class Configuration(BaseModel):
+    """Absolute subshell occupancies in canonical shell order (n, then l).
+
+    >>> c = Configuration.model_validate("[Ar] 4s2 3d6")
+    >>> str(c), c.electron_count
+    ('[Ar] 3d6 4s2', 26)
+    >>> c == Configuration.model_validate("1s2 2s2 2p6 3s2 3p6 3d6 4s2")
+    True
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid",
+                              json_schema_extra={"description": (
+                                  "Subshell occupancies in shell order; a notation string "
+                                  "such as '[Ar] 3d6 4s2' is accepted on input.")})
+
+    subshells: tuple[Subshell, ...] = ()
+
+    @model_validator(mode="before")
+    @classmethod
+    def _from_text(cls, data: Any) -> Any:
+        if isinstance(data, str):
+            if not data.strip():
+                return {"subshells": ()}  # the empty configuration (a bare nucleus)
+            try:
+                return _parse()(data)
+            except ConfspecError as err:
+                raise _as_pydantic_error(err) from None
+        return data
+
+    @field_validator("subshells")
+    @classmethod
+    def _canonical(cls, value: tuple[Subshell, ...]) -> tuple[Subshell, ...]:
+        seen: set[tuple[int, int]] = set()
+        for sub in value:
+            if (sub.n, sub.l) in seen:
+                raise PydanticCustomError("duplicate-subshell", "{label} is given twice",
+                                          {"label": sub.label})
+            seen.add((sub.n, sub.l))
+        return tuple(sorted((s for s in value if s.electrons), key=lambda s: (s.n, s.l)))
+
+    # -- construction ------------------------------------------------------------------
+    @classmethod
+    def _trusted(cls, occupancies: Iterable[Occupancy]) -> Configuration:
+        """Build from occupancies already checked by the resolver (no re-validation)."""
+        subs = tuple(make_subshell(n, l, e) for n, l, e in sorted(occupancies) if e)
+        return cls.model_construct(subshells=subs)
+
+    @classmethod
+    def from_occupancies(cls, occupancies: Mapping[str, int] | Iterable[Occupancy]
+                         ) -> Configuration:
+        """Build from ``{"3d": 6, "4s": 2}`` or ``[(3, 2, 6), (4, 0, 2)]``, validating.
+
+        >>> str(Configuration.from_occupancies({"4s": 2, "3d": 6}))
+        '3d6 4s2'
+        """
+        triples: list[Occupancy] = []
+        if isinstance(occupancies, Mapping):
+            for label, electrons in occupancies.items():
+                sub = Subshell.model_validate(f"{label}{electrons}" if electrons else label)
+                triples.append((sub.n, sub.l, int(electrons)))
+        else:
+            triples = [(int(n), int(l), int(e)) for n, l, e in occupancies]
+        return cls(subshells=tuple(Subshell(n=n, l=l, electrons=e) for n, l, e in triples))
+
+    def replace(self, **changes: int) -> Configuration:
+        """A copy with some occupancies changed, validated: ``c.replace(**{"4s": 1})``."""
+        occ = {s.label: s.electrons for s in self.subshells}
+        occ.update(changes)
+        return Configuration.from_occupancies(occ)
+
+    # -- the value ---------------------------------------------------------------------
+    @property
+    def occupancies(self) -> tuple[Occupancy, ...]:
+        return tuple((s.n, s.l, s.electrons) for s in self.subshells)
+
+    @property
+    def electron_count(self) -> int:
+        return sum(s.electrons for s in self.subshells)
+
+    def occupancy(self, label: str) -> int:
+        """Electrons in one subshell (0 when absent): ``c.occupancy("3d")``."""
+        letter = label[-1:]
+        try:
+            n, l = int(label[:-1]), LETTER_TO_L[letter]
+        except (ValueError, KeyError):
+            raise ConfspecPhysicsError("invalid-subshell", f"{label!r} is not a subshell label",
+                                       text=label) from None
+        for sub in self.subshells:
+            if sub.n == n and sub.l == l:
+                return sub.electrons
+        return 0
+
+    # -- chemistry views (computed in the chemistry layer) -----------------------------
+    @property
+    def parity(self) -> Parity:
+        """``"even"`` or ``"odd"``: the parity of the sum of l over all electrons."""
+        return "odd" if sum(s.l * s.electrons for s in self.subshells) % 2 else "even"
+
+    @property
+    def open_subshells(self) -> tuple[Subshell, ...]:
+        """Subshells that are neither empty nor full."""
+        return tuple(s for s in self.subshells if not s.is_full)
+
+    @property
+    def unpaired_electrons(self) -> int:
+        """Unpaired electrons by Hund's first rule, summed over open subshells."""
+        return sum(min(s.electrons, s.capacity - s.electrons) for s in self.open_subshells)
+
+    # -- notation ----------------------------------------------------------------------
+    def format(self, style: str = "plain", core: str = "condense", order: str = "shell",
+               **options: Any) -> str:
+        """Write in a notation: style plain|caret|unicode|latex|html|dotted,
+        core condense|expand, order shell|filling."""
+        from ._format import format_configuration
+
+        return format_configuration(self, style=style, core=core, order=order, **options)
+
+    def __format__(self, spec: str) -> str:
+        if not spec:
+            return str(self)
+        from ._format import options_from_spec
+
+        return self.format(**options_from_spec(spec))
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"Configuration('{self}')"
+
+    def _repr_html_(self) -> str:
+        return self.format(style="html")
+
+    def _repr_latex_(self) -> str:
+        return "$" + self.format(style="latex") + "$"
+
+    def to_compact_json(self) -> str:
+        """The canonical-string JSON form, e.g. ``"[Ar] 3d6 4s2"`` (quotes included)."""
+        import json
+
+        return json.dumps(str(self), ensure_ascii=False)
+
+
+class Element(BaseModel):
+    """A chemical element, Z = 1–118, with its IUPAC symbol and name."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    Z: int = Field(ge=1, le=118)
+    symbol: str
+    name: str
+
+    @model_validator(mode="before")
+    @classmethod
+    def _lookup(cls, data: Any) -> Any:
+        row: _elements.ElementRow | None
+        if isinstance(data, bool):
+            return data
+        if isinstance(data, int):
+            row = _elements.by_number(data)
+            if row is None:
+                raise PydanticCustomError("unknown-element", "no element has Z = {z}",
+                                          {"z": data})
+            return row._asdict()
+        if isinstance(data, str):
+            row = _elements.by_symbol(data.strip()) or _elements.by_name(data)
+            if row is None:
+                raise PydanticCustomError("unknown-element", "{s!r} is not an element symbol",
+                                          {"s": data})
+            return row._asdict()
+        return data
+
+    @model_validator(mode="after")
+    def _consistent(self) -> Element:
+        row = _elements.by_number(self.Z)
+        if row is None or (row.symbol, row.name) != (self.symbol, self.name):
+            raise PydanticCustomError("unknown-element", "Z, symbol and name do not agree")
+        return self
+
+    def __str__(self) -> str:
+        return self.symbol
+
+    def __repr__(self) -> str:
+        return f"Element('{self.symbol}')"
+
+
+_MIN_CHARGE = -4
+
+
+class Species(BaseModel):
+    """An atom or atomic ion: element and integer charge.
+
+    >>> s = Species.model_validate("Fe(III)")
+    >>> str(s), s.electron_count
+    ('Fe3+', 23)
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+    MIN_CHARGE: ClassVar[int] = _MIN_CHARGE
+
+    element: Element
+    charge: int = 0
+
+    @model_validator(mode="before")
+    @classmethod
+    def _from_text(cls, data: Any) -> Any:
+        if isinstance(data, str):
+            from ._api import parse_species
+
+            try:
+                return parse_species(data)
+            except ConfspecError as err:
+                raise _as_pydantic_error(err) from None
+        return data
+
+    @model_validator(mode="after")
+    def _possible(self) -> Species:
+        if self.charge > self.element.Z or self.charge < _MIN_CHARGE:
+            raise PydanticCustomError(
+                "impossible-charge", "{symbol} cannot carry charge {charge}",
+                {"symbol": self.element.symbol, "charge": self.charge})
+        return self
+
+    @property
+    def Z(self) -> int:
+        return self.element.Z
+
+    @property
+    def symbol(self) -> str:
+        return self.element.symbol
+
+    @property
+    def name(self) -> str:
+        return self.element.name
+
+    @property
+    def electron_count(self) -> int:
+        """Z − charge (never negative)."""
+        return self.element.Z - self.charge
+
+    def format(self, style: str = "plain") -> str:
+        """Styles: plain ``Fe2+``, unicode ``Fe²⁺``, latex, html, spectrum ``Fe III``,
+        oxidation ``Fe(III)``."""
+        from ._format import format_species
+
+        return format_species(self, style)
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"Species('{self}')"
+
+
+class ConfigurationRecord(BaseModel):
+    """A species with its configuration; the configuration must hold Z − charge electrons."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    species: Species
+    configuration: Configuration
+
+    @model_validator(mode="after")
+    def _electron_count(self) -> ConfigurationRecord:
+        have, want = self.configuration.electron_count, self.species.electron_count
+        if have != want:
+            raise PydanticCustomError(
+                "electron-count", "{config} holds {have} electrons; {species} has {want}",
+                {"config": str(self.configuration), "have": have,
+                 "species": str(self.species), "want": want})
+        return self
+
+    def __str__(self) -> str:
+        return f"{self.species}: {self.configuration}"
