@@ -14,13 +14,21 @@ from ._errors import (
     ConfspecPhysicsError,
     ConfspecSyntaxError,
 )
-from ._models import Configuration, ConfigurationRecord, Element, Species, Subshell
+from ._models import (
+    CompactConfiguration,
+    Configuration,
+    ConfigurationRecord,
+    Element,
+    Species,
+    Subshell,
+)
 
 __version__ = "0.1.0"
 
 __all__ = [
     "ERROR_CODES",
     "MAX_INPUT_LENGTH",
+    "CompactConfiguration",
     "Configuration",
     "ConfigurationRecord",
     "ConfspecError",

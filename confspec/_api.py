@@ -14,7 +14,7 @@ from typing import Any
 
 from . import _elements
 from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
-from ._fastpath import fast_raw
+from ._fastpath import fast_configuration
 from ._models import Configuration, Element, Species
 from ._physics import Occupancy
 from ._resolve import resolve
@@ -32,17 +32,19 @@ _OUTER_SPACE = " \t\r\n\f\v\u00a0\u1680\u2000\u2001\u2002\u2003\u2004\u2005\u200
 _MOJIBAKE_LEAD = "ÂÃâ"
 
 
+_MOJIBAKE_CANDIDATE = re.compile(f"[{_MOJIBAKE_LEAD}].")
+
+
 def _mojibake_at(text: str) -> int | None:
     """Position of UTF-8 bytes read as Latin-1 / Windows-1252 ('1sÂ²', '2pâ\\x81¶'), if any."""
-    for index, char in enumerate(text[:-1]):
-        if char in _MOJIBAKE_LEAD:
-            follower = text[index + 1]
-            try:
-                byte = follower.encode("cp1252")
-            except UnicodeEncodeError:
-                byte = follower.encode("latin-1", errors="ignore")
-            if len(byte) == 1 and 0x80 <= byte[0] <= 0xBF:
-                return index
+    for match in _MOJIBAKE_CANDIDATE.finditer(text):
+        follower = match.group()[1]
+        try:
+            byte = follower.encode("cp1252")
+        except UnicodeEncodeError:
+            byte = follower.encode("latin-1", errors="ignore")
+        if len(byte) == 1 and 0x80 <= byte[0] <= 0xBF:
+            return match.start()
     return None
 
 
@@ -79,10 +81,6 @@ def _precheck(text: object, what: str) -> str:
 
 
 def _raw(text: str) -> RawConfiguration:
-    if text[:1] not in _OUTER_SPACE and text[-1:] not in _OUTER_SPACE:
-        raw = fast_raw(text)
-        if raw is not None:
-            return raw
     from ._grammar import parse_configuration_raw
 
     return parse_configuration_raw(text)
@@ -104,8 +102,11 @@ def _reference(raw: RawConfiguration, species: Species | None) -> tuple[Occupanc
 
 @lru_cache(maxsize=65_536)
 def _parse_cached(text: str, accept_uppercase: bool) -> Configuration:
-    raw = _raw(text)
-    occupancies, errors = resolve(raw, text, accept_uppercase=accept_uppercase)
+    fast = fast_configuration(text)  # common spellings need no precheck: see _fastpath
+    if fast is not None:
+        return fast
+    text = _precheck(text, "configuration")
+    occupancies, errors = resolve(_raw(text), text, accept_uppercase=accept_uppercase)
     if errors:
         raise errors[0]
     return Configuration._trusted(occupancies)
@@ -128,9 +129,9 @@ def parse(text: str, *, species: Species | str | None = None,
     >>> str(parse("[Ne] 2p^-1 3s2"))
     '[He] 2s2 2p5 3s2'
     """
-    text = _precheck(text, "configuration")
-    if species is None:
+    if species is None and type(text) is str and len(text) <= MAX_INPUT_LENGTH:
         return _parse_cached(text, accept_uppercase)
+    text = _precheck(text, "configuration")
     kind = _as_species(species)
     raw = _raw(text)
     occupancies, errors = resolve(raw, text, accept_uppercase=accept_uppercase,
@@ -224,6 +225,9 @@ def validate(text: str, species: Species | str | None = None, *, strict: bool = 
         except ConfspecError as err:
             problems.append(err)
     try:
+        if kind is None and not strict and type(text) is str and len(text) <= MAX_INPUT_LENGTH \
+                and fast_configuration(text) is not None:
+            return problems
         text = _precheck(text, "configuration")
         raw = _raw(text)
         occupancies, errors = resolve(raw, text, accept_uppercase=accept_uppercase,

@@ -94,6 +94,28 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
     ("unknown-option", "syntax",
      "A formatting option (style, core, order) that confspec does not know.",
      "Use one of the documented values."),
+    # -- chemistry layer: term symbols, ground states, shielding -------------------------
+    ("term-syntax", "syntax",
+     "A term symbol that does not read as multiplicity, letter, optional parity mark and "
+     "optional J ('2p1/2', 'P2', '2J').",
+     "Write it like 2P°1/2, 5D4, 2Po1/2 or ^{2}P^{o}_{1/2}; term letters are upper case."),
+    ("invalid-term", "physics",
+     "A term whose J is impossible for its L and S (outside |L−S|…L+S, or integer where "
+     "it must be half-integer: '2P1'), or a multiplicity of 0.",
+     "Check J against the multiplicity and the letter (confspec.allowed_j lists them)."),
+    ("not-d-block", "physics",
+     "A ligand-field d-electron count asked for an element outside groups 3–12.",
+     "Use d_electron_count only for transition metals; use ground_state for others."),
+    ("d-count-out-of-range", "physics",
+     "Group number minus oxidation state falls outside 0–10 (e.g. Ti(V)).",
+     "Check the oxidation state."),
+    ("empty-subshell", "physics",
+     "Effective charge asked for a subshell that holds no electron in the configuration.",
+     "Pass configuration= with an electron in that subshell (e.g. '[Ar] 3d1' for K)."),
+    ("no-reference-data", "physics",
+     "A published table has no value for the request (Clementi–Raimondi: neutral ground-state "
+     "atoms Z = 1–36, occupied subshells only).",
+     "Use model='slater', or ask for a tabulated atom and subshell."),
 )
 
 

@@ -1,62 +1,93 @@
 """A compiled fast path for the spellings most data holds.
 
-It recognises a strict subset of the grammar (an optional ``[Ng]`` core, subshells with
-plain or ``^`` occupancies, single spaces or dots between them, run-together digits) and
-builds the same :class:`RawConfiguration` the grammar would; anything else returns None and
-goes to lark. Property tests prove the two paths agree on every string the fast path takes.
+It reads a strict subset of the grammar in one regular-expression scan: an optional
+``[Ng]`` core, subshells with single-digit n whose occupancy is plain, ``^k``, ``^{k}``,
+``<sup>k</sup>`` or unicode superscripts, separated by one space, one dot or nothing
+(run-together digits are split as the grammar splits them). It returns a configuration
+only when the text is in that subset *and* valid; everything else (other spellings, holes,
+any problem) returns None and takes the full path, which owns every error message.
+Property tests prove the two paths agree on every string the fast path takes.
 """
 
 from __future__ import annotations
 
 import re
 
-from ._syntax import (
-    Letter,
-    Open,
-    Piece,
-    RawConfiguration,
-    RawCore,
-    Segment,
-    SepKind,
-    Sub,
-    assemble,
-)
+from ._models import Configuration, Subshell, make_subshell
+from ._physics import NOBLE_CORES, Occupancy
 
-_CORE = r"\[(?:He|Ne|Ar|Kr|Xe|Rn|Og)\]"
-_RUN = r"[0-9]+[a-z](?:\^?[0-9]+[a-z])*(?:\^?[0-9]+)?"
-_SHAPE = re.compile(rf"(?:({_CORE})(?: |\.)?)?((?:{_RUN})(?:[ .]{_RUN})*)?")
-_CHUNK = re.compile(r"(\^?)([0-9]+)([a-z]?)")
+_L = {"s": 0, "p": 1, "d": 2, "f": 3, "g": 4, "h": 5, "i": 6, "k": 7}
+_CAPACITY = {letter: 2 * (2 * l + 1) for letter, l in _L.items()}
+_SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+_CORE = re.compile(r"\[(?:He|Ne|Ar|Kr|Xe|Rn|Og)\](?:[ .](?=[1-9]))?")
+# One subshell token; the occupancy is as short as possible such that what follows is a
+# separator before a digit, the next subshell (digit + letter), or the end: exactly the
+# grammar's single-digit reading of run-together digits.
+_TOKEN_BODY = (
+    r"([1-9])([spdfghik])"
+    r"(?:\^?([0-9]+?)|\^\{([0-9]+)\}|<sup>([0-9]+)</sup>|([⁰¹²³⁴⁵⁶⁷⁸⁹]+))?"
+    r"(?:[ .](?=[1-9])|(?=[1-9][spdfghik])|\Z)")
+_TOKEN_TEXT = re.compile(re.sub(r"\((?!\?)", "(?:", _TOKEN_BODY))  # same shape, no groups
+# the parts of one token once it is cut out of the text
+_TOKEN_PARTS = re.compile(
+    r"([1-9])([spdfghik])(?:\^?([0-9]+)|\^\{([0-9]+)\}|<sup>([0-9]+)</sup>|([⁰¹²³⁴⁵⁶⁷⁸⁹]+))?"
+    r"[ .]?")
+
+_Entry = tuple[int, Subshell | None]  # (sort key n*32 + l, interned subshell; None if empty)
+_INVALID: _Entry = (-1, None)
+_TOKEN_CACHE: dict[str, _Entry] = {}
 
 
-def fast_raw(text: str) -> RawConfiguration | None:
-    """The raw parse of ``text`` if it has one of the common shapes, else None."""
-    match = _SHAPE.fullmatch(text)
-    if match is None or not (match.group(1) or match.group(2)):
+def _entries(occupancies: tuple[Occupancy, ...]) -> list[_Entry]:
+    return [(n * 32 + l, make_subshell(n, l, e)) for n, l, e in occupancies]
+
+
+_CORES: dict[str, tuple[frozenset[int], list[_Entry]]] = {
+    f"[{symbol}]": (frozenset(n * 32 + l for n, l, _ in occ), _entries(occ))
+    for symbol, occ in NOBLE_CORES.items()}
+
+
+def _token_entry(token: str) -> _Entry:
+    """Read one token (cached: real data repeats a few hundred tokens)."""
+    match = _TOKEN_PARTS.fullmatch(token)
+    assert match is not None, token
+    n_text, letter, plain, braced, html, sup = match.groups()
+    count_text = plain or braced or html or (sup or "").translate(_SUPERSCRIPT_DIGITS)
+    count = int(count_text) if count_text else 1
+    n, l = int(n_text), _L[letter]
+    if l >= n or count > _CAPACITY[letter]:
+        entry = _INVALID  # the full path names the problem
+    else:
+        entry = (n * 32 + l, make_subshell(n, l, count) if count else None)
+    if len(_TOKEN_CACHE) < 100_000:
+        _TOKEN_CACHE[token] = entry
+    return entry
+
+
+def fast_configuration(text: str) -> Configuration | None:
+    """The configuration of ``text`` if it is a common, valid spelling; else None."""
+    body = text
+    core_keys: frozenset[int] = frozenset()
+    entries: list[_Entry] = []
+    if text[:1] == "[":
+        match = _CORE.match(text)
+        if match is None:
+            return None
+        core_keys, core_entries = _CORES[text[: text.index("]") + 1]]
+        entries = list(core_entries)
+        body = text[match.end():]
+    tokens = _TOKEN_TEXT.findall(body)
+    if sum(map(len, tokens)) != len(body) or not (tokens or entries):
         return None
-    core_text = match.group(1)
-    core = RawCore(core_text[1:-1], 0, True) if core_text else None
-    body = match.group(2)
-    if not body:
-        return RawConfiguration(core, ())
-    start = match.start(2)
-    segments: list[Segment] = []
-    seps: list[tuple[SepKind, int]] = []
-    pos = start
-    for chunk in re.split(r"([ .])", body):
-        if chunk == " " or chunk == ".":
-            seps.append(("space" if chunk == " " else "punct", pos))
-            pos += 1
-            continue
-        pieces: list[Piece] = []
-        for m in _CHUNK.finditer(chunk):
-            caret, digits, letter = m.groups()
-            at = pos + m.start(2)
-            if not pieces:
-                pieces.append(Sub(digits, at, letter))
-                continue
-            pieces.append(Open(digits, at, caret=bool(caret)))
-            if letter:
-                pieces.append(Letter(letter, pos + m.start(3)))
-        segments.append(tuple(pieces))
-        pos += len(chunk)
-    return assemble(core, segments, seps, text)
+    written: set[int] = set()
+    cached = _TOKEN_CACHE.get
+    for token in tokens:
+        entry = cached(token) or _token_entry(token)
+        key = entry[0]
+        if key < 0 or key in written or key in core_keys:
+            return None  # the full path names the problem
+        written.add(key)
+        if entry[1] is not None:
+            entries.append(entry)
+    entries.sort()
+    return Configuration._from_sorted(tuple([sub for _, sub in entries]))  # type: ignore[misc]

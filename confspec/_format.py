@@ -150,7 +150,8 @@ def options_from_spec(spec: str) -> dict[str, str]:
     return options
 
 
-_ROMAN = ((50, "L"), (40, "XL"), (10, "X"), (9, "IX"), (5, "V"), (4, "IV"), (1, "I"))
+_ROMAN = ((100, "C"), (90, "XC"), (50, "L"), (40, "XL"), (10, "X"), (9, "IX"), (5, "V"),
+          (4, "IV"), (1, "I"))
 
 
 def roman(value: int) -> str:

@@ -241,8 +241,8 @@ class _ToRaw(Transformer[Token, Any]):
 
 
 _SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
-_ROMAN_VALUES = {"I": 1, "V": 5, "X": 10, "L": 50}
-_ROMAN_RE = re.compile(r"^(?:L?X{0,3}|XL|XC)(?:IX|IV|V?I{0,3})$")
+_ROMAN_VALUES = {"I": 1, "V": 5, "X": 10, "L": 50, "C": 100}
+_ROMAN_RE = re.compile(r"^C?(?:XC|XL|L?X{0,3})(?:IX|IV|V?I{0,3})$")
 
 
 def _roman(numeral: str, position: int, text: str) -> int:
@@ -273,6 +273,9 @@ def _strip(text: str) -> tuple[str, int]:
     return stripped.rstrip(), offset
 
 
+_CORE_SHAPE = re.compile(r"\[[^\[\]]{0,24}\]")
+
+
 def _syntax_error(err: UnexpectedInput, text: str, offset: int, what: str) -> ConfspecError:
     if isinstance(err, UnexpectedToken):
         token = err.token
@@ -293,7 +296,7 @@ def _syntax_error(err: UnexpectedInput, text: str, offset: int, what: str) -> Co
         position = int(err.pos_in_stream or 0) + offset
         char = text[position] if position < len(text) else ""
         allowed = set(err.allowed or ())
-        if char == "[" and "CORE" not in allowed:
+        if char == "[" and "CORE" not in allowed and _CORE_SHAPE.match(text, position):
             return ConfspecSyntaxError(
                 "misplaced-core", "a core after the first subshell: only one core, at the start "
                 "(are two configurations in this cell?)", position=position, text=text)

@@ -9,9 +9,16 @@ Models know nothing of lark, the CLI or any adapter: text input is handed to
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from typing import Any, ClassVar
+from typing import Annotated, Any, ClassVar
 
-from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+from pydantic import (
+    BaseModel,
+    ConfigDict,
+    Field,
+    PlainSerializer,
+    field_validator,
+    model_validator,
+)
 from pydantic_core import PydanticCustomError
 
 from . import _elements
@@ -46,7 +53,7 @@ class Subshell(BaseModel):
                 raise _as_pydantic_error(err) from None
             if len(config.subshells) != 1:
                 raise PydanticCustomError("syntax", "expected exactly one subshell")
-            return config.subshells[0]
+            return config.subshells[0].model_dump()
         return data
 
     @model_validator(mode="after")
@@ -98,6 +105,9 @@ def make_subshell(n: int, l: int, electrons: int) -> Subshell:
     return sub
 
 
+_FIELDS_SET = {"subshells"}
+
+
 def _parse() -> Any:
     from ._api import parse
 
@@ -128,7 +138,7 @@ class Configuration(BaseModel):
             if not data.strip():
                 return {"subshells": ()}  # the empty configuration (a bare nucleus)
             try:
-                return _parse()(data)
+                return {"subshells": _parse()(data).subshells}
             except ConfspecError as err:
                 raise _as_pydantic_error(err) from None
         return data
@@ -150,6 +160,17 @@ class Configuration(BaseModel):
         """Build from occupancies already checked by the resolver (no re-validation)."""
         subs = tuple(make_subshell(n, l, e) for n, l, e in sorted(occupancies) if e)
         return cls.model_construct(subshells=subs)
+
+    @classmethod
+    def _from_sorted(cls, subshells: tuple[Subshell, ...]) -> Configuration:
+        """Fastest construction, for the parser's fast path: subshells already valid,
+        interned, sorted and without zeros."""
+        config = cls.__new__(cls)
+        object.__setattr__(config, "__dict__", {"subshells": subshells})
+        object.__setattr__(config, "__pydantic_fields_set__", _FIELDS_SET)
+        object.__setattr__(config, "__pydantic_extra__", None)
+        object.__setattr__(config, "__pydantic_private__", None)
+        return config
 
     @classmethod
     def from_occupancies(cls, occupancies: Mapping[str, int] | Iterable[Occupancy]
@@ -247,6 +268,12 @@ class Configuration(BaseModel):
         return json.dumps(str(self), ensure_ascii=False)
 
 
+#: A Configuration field that serializes as its canonical string (``"[Ar] 3d6 4s2"``) instead
+#: of the structured form; it accepts either form on input.
+CompactConfiguration = Annotated[
+    Configuration, PlainSerializer(str, return_type=str, when_used="always")]
+
+
 class Element(BaseModel):
     """A chemical element, Z = 1–118, with its IUPAC symbol and name."""
 
@@ -314,9 +341,10 @@ class Species(BaseModel):
             from ._api import parse_species
 
             try:
-                return parse_species(data)
+                parsed = parse_species(data)
             except ConfspecError as err:
                 raise _as_pydantic_error(err) from None
+            return {"element": parsed.element, "charge": parsed.charge}
         return data
 
     @model_validator(mode="after")

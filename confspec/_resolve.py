@@ -45,7 +45,7 @@ def resolve(raw: RawConfiguration, text: str, *, accept_uppercase: bool = False,
         {(n, l): e for n, l, e in reference} if reference is not None else {})
     hole_source = core_name or "the reference configuration"
 
-    written: dict[tuple[int, int], int] = {}
+    written: dict[tuple[int, int], tuple[bool, int]] = {}  # (is a hole, count)
     seen: set[tuple[int, int]] = set()
     for item in raw.items:
         letter = item.letter
@@ -90,7 +90,7 @@ def resolve(raw: RawConfiguration, text: str, *, accept_uppercase: bool = False,
                     "hole-exceeds", f"{count} holes in {label}, but {hole_source} puts only "
                     f"{holes_from[key]} electrons there", position=count_at, text=text))
                 continue
-            written[key] = -count
+            written[key] = (True, count)
             continue
         if key in base:
             errors.append(ConfspecPhysicsError(
@@ -102,16 +102,16 @@ def resolve(raw: RawConfiguration, text: str, *, accept_uppercase: bool = False,
                 "pauli-limit", f"{label} holds at most {limit} electrons, not {count}",
                 position=count_at, text=text))
             continue
-        written[key] = count
+        written[key] = (False, count)
 
-    if raw.core is None and reference is not None and any(v < 0 for v in written.values()):
+    if raw.core is None and reference is not None and any(h for h, _ in written.values()):
         # Holes relative to a reference without a core: the rest of the reference stays.
         for key, electrons in holes_from.items():
             base.setdefault(key, electrons)
     occupancy = dict(base)
-    for key, change in written.items():
+    for key, (hole, count) in written.items():
         # a hole subtracts; a written occupancy sets (against a reference it replaces)
-        occupancy[key] = occupancy.get(key, 0) + change if change < 0 else change
+        occupancy[key] = occupancy.get(key, 0) - count if hole else count
     result = tuple(sorted((n, l, e) for (n, l), e in occupancy.items() if e > 0))
     return result, errors
 

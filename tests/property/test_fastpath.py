@@ -1,0 +1,68 @@
+"""The compiled fast path is proven equal to the grammar on every string it accepts."""
+
+from __future__ import annotations
+
+from hypothesis import example, given
+from hypothesis import strategies as st
+
+from confspec import Configuration, ConfspecError
+from confspec._fastpath import fast_configuration
+from confspec._grammar import parse_configuration_raw
+from confspec._resolve import resolve
+
+from .strategies import configurations
+
+CORE = st.sampled_from(["", "[He]", "[Ne]", "[Ar]", "[Kr]", "[Xe]", "[Rn]", "[Og]", "[Ar] ",
+                        "[Ne].", "[Fe] ", "[ar]"])
+OCC = st.sampled_from(["", "0", "1", "2", "6", "10", "14", "99", "^2", "^{6}", "<sup>10</sup>",
+                       "²", "¹⁴", "⁻¹", "^-1", "(2)"])
+TOKEN = st.builds(lambda n, letter, k: f"{n}{letter}{k}", st.integers(0, 12),
+                  st.sampled_from("spdfghikx"), OCC)
+SEP = st.sampled_from(["", "", " ", ".", "  ", ","])
+
+
+@st.composite
+def fast_shaped(draw: st.DrawFn) -> str:
+    tokens = draw(st.lists(TOKEN, max_size=8))
+    text = draw(CORE)
+    for token in tokens:
+        text += token + draw(SEP)
+    return text.rstrip(" .") if draw(st.booleans()) else text
+
+
+def _full_path(text: str) -> Configuration | None:
+    try:
+        occupancies, errors = resolve(parse_configuration_raw(text), text)
+    except ConfspecError:
+        return None
+    return None if errors else Configuration.from_occupancies(occupancies)
+
+
+def _agree(text: str) -> None:
+    fast = fast_configuration(text)
+    if fast is None:
+        return
+    assert fast == _full_path(text), text
+    assert fast.subshells == tuple(sorted(fast.subshells, key=lambda s: (s.n, s.l)))
+
+
+@given(fast_shaped())
+@example("1s22s22p63s23p64s23d104p65s24d105p66s24f145d106p67s25f146d107p6")
+@example("[Xe]4f145d106s2")
+@example("2p110s1")
+@example("[Ar]3d⁶4s²")
+def test_fast_path_equals_grammar_on_fast_shaped_text(text: str) -> None:
+    _agree(text)
+
+
+@given(configurations())
+def test_fast_path_takes_canonical_text(config: Configuration) -> None:
+    text = str(config)
+    if all(s.n < 10 for s in config.subshells) and all(s.l < 8 for s in config.subshells):
+        assert fast_configuration(text) == config
+    _agree(text)
+    _agree(config.format(style="caret", core="expand"))
+    _agree(config.format(style="unicode", order="filling"))
+    _agree(config.format(style="html"))
+    _agree(config.format(style="dotted"))
+    _agree(config.format(core="expand").replace(" ", ""))
