@@ -1,7 +1,7 @@
 """A compiled fast path for the spellings most data holds.
 
 It reads a strict subset of the grammar in one regular-expression scan: an optional
-``[Ng]`` core, subshells with single-digit n whose occupancy is plain, ``^k``, ``^{k}``,
+``[Ng]`` core, subshells (n of one digit, or two after a separator) whose occupancy is plain, ``^k``, ``^{k}``,
 ``<sup>k</sup>`` or unicode superscripts, separated by one space, one dot or nothing
 (run-together digits are split as the grammar splits them). It returns a configuration
 only when the text is in that subset *and* valid; everything else (other spellings, holes,
@@ -24,13 +24,13 @@ _CORE = re.compile(r"\[(?:He|Ne|Ar|Kr|Xe|Rn|Og)\](?:[ .](?=[1-9]))?")
 # separator before a digit, the next subshell (digit + letter), or the end: exactly the
 # grammar's single-digit reading of run-together digits.
 _TOKEN_BODY = (
-    r"([1-9])([spdfghik])"
+    r"((?<![^ .])[1-9][0-9]?|[1-9])([spdfghik])"  # n: 1-2 digits after a separator, else 1
     r"(?:\^?([0-9]+?)|\^\{([0-9]+)\}|<sup>([0-9]+)</sup>|([⁰¹²³⁴⁵⁶⁷⁸⁹]+))?"
     r"(?:[ .](?=[1-9])|(?=[1-9][spdfghik])|\Z)")
 _TOKEN_TEXT = re.compile(re.sub(r"\((?!\?)", "(?:", _TOKEN_BODY))  # same shape, no groups
 # the parts of one token once it is cut out of the text
 _TOKEN_PARTS = re.compile(
-    r"([1-9])([spdfghik])(?:\^?([0-9]+)|\^\{([0-9]+)\}|<sup>([0-9]+)</sup>|([⁰¹²³⁴⁵⁶⁷⁸⁹]+))?"
+    r"([1-9][0-9]?)([spdfghik])(?:\^?([0-9]+)|\^\{([0-9]+)\}|<sup>([0-9]+)</sup>|([⁰¹²³⁴⁵⁶⁷⁸⁹]+))?"
     r"[ .]?")
 
 _Entry = tuple[int, Subshell | None]  # (sort key n*32 + l, interned subshell; None if empty)
@@ -42,9 +42,8 @@ def _entries(occupancies: tuple[Occupancy, ...]) -> list[_Entry]:
     return [(n * 32 + l, make_subshell(n, l, e)) for n, l, e in occupancies]
 
 
-_CORES: dict[str, tuple[frozenset[int], list[_Entry]]] = {
-    f"[{symbol}]": (frozenset(n * 32 + l for n, l, _ in occ), _entries(occ))
-    for symbol, occ in NOBLE_CORES.items()}
+_CORES: dict[str, list[_Entry]] = {
+    f"[{symbol}]": _entries(occ) for symbol, occ in NOBLE_CORES.items()}
 
 
 def _token_entry(token: str) -> _Entry:
@@ -67,27 +66,21 @@ def _token_entry(token: str) -> _Entry:
 def fast_configuration(text: str) -> Configuration | None:
     """The configuration of ``text`` if it is a common, valid spelling; else None."""
     body = text
-    core_keys: frozenset[int] = frozenset()
     entries: list[_Entry] = []
     if text[:1] == "[":
         match = _CORE.match(text)
         if match is None:
             return None
-        core_keys, core_entries = _CORES[text[: text.index("]") + 1]]
-        entries = list(core_entries)
+        entries = list(_CORES[text[: text.index("]") + 1]])
         body = text[match.end():]
     tokens = _TOKEN_TEXT.findall(body)
     if sum(map(len, tokens)) != len(body) or not (tokens or entries):
         return None
-    written: set[int] = set()
     cached = _TOKEN_CACHE.get
-    for token in tokens:
-        entry = cached(token) or _token_entry(token)
-        key = entry[0]
-        if key < 0 or key in written or key in core_keys:
-            return None  # the full path names the problem
-        written.add(key)
-        if entry[1] is not None:
-            entries.append(entry)
+    entries += [cached(token) or _token_entry(token) for token in tokens]
+    if len({key for key, _ in entries}) != len(entries):
+        return None  # a subshell twice, or one the core fills: the full path names it
     entries.sort()
-    return Configuration._from_sorted(tuple([sub for _, sub in entries]))  # type: ignore[misc]
+    if entries[0][0] < 0:
+        return None  # an impossible subshell or occupancy: the full path names it
+    return Configuration._from_sorted(tuple([sub for _, sub in entries if sub is not None]))
