@@ -1,8 +1,9 @@
 """A compiled fast path for the spellings most data holds.
 
 It reads a strict subset of the grammar in one regular-expression scan: an optional
-``[Ng]`` core, subshells (n of one digit, or two after a separator) whose occupancy is plain, ``^k``, ``^{k}``,
-``<sup>k</sup>`` or unicode superscripts, separated by one space, one dot or nothing
+``[Ng]`` core, subshells (n of one digit, or two after a separator) whose occupancy is
+plain, ``^k``, ``^{k}``, ``<sup>k</sup>`` or unicode superscripts, separated by one space,
+one dot or nothing
 (run-together digits are split as the grammar splits them). It returns a configuration
 only when the text is in that subset *and* valid; everything else (other spellings, holes,
 any problem) returns None and takes the full path, which owns every error message.
