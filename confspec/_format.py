@@ -16,6 +16,7 @@ from ._physics import (
     NOBLE_CORES,
     Occupancy,
     filling_key,
+    pauli_limit,
     shell_key,
     subshell_label,
 )
@@ -31,10 +32,12 @@ class Style:
     """How one notation writes a core, a subshell with its count, and the gaps between."""
 
     name: str
-    count: Callable[[int], str]  # occupancy (negative for a hole) -> text after the label
+    count: Callable[[int], str]  # occupancy (negative for a hole) -> text after nl
     separator: str
     core: str  # template with {symbol}
     after_core: str  # between the core and the first subshell
+    j: str = "{j}"  # template for j of a relativistic subshell (j as "3/2")
+    j_count: Callable[[int], str] | None = None  # occupancy after nlj (default: caret form)
 
 
 def _plain(k: int) -> str:
@@ -70,9 +73,10 @@ def register_style(style: Style) -> None:
 for _style in (
     Style("plain", _plain, " ", "[{symbol}]", " "),
     Style("caret", _caret, " ", "[{symbol}]", " "),
-    Style("unicode", _unicode, " ", "[{symbol}]", " "),
-    Style("latex", _latex, r"\,", r"[\mathrm{{{symbol}}}]", r"\,"),
-    Style("html", _html, " ", "[{symbol}]", " "),
+    Style("unicode", _unicode, " ", "[{symbol}]", " ", j_count=_unicode),
+    Style("latex", _latex, r"\,", r"[\mathrm{{{symbol}}}]", r"\,", j="_{{{j}}}",
+          j_count=_latex),
+    Style("html", _html, " ", "[{symbol}]", " ", j="<sub>{j}</sub>", j_count=_html),
     Style("dotted", _plain, ".", "[{symbol}]", "."),
 ):
     register_style(_style)
@@ -90,6 +94,11 @@ def _option(kind: str, value: str, allowed: Iterable[str]) -> None:
             "unknown-option", f"unknown {kind} {value!r}; use one of: " + ", ".join(allowed))
 
 
+def _quads(occupancies: Iterable[tuple[int, ...]]) -> list[tuple[int, int, int, int]]:
+    return [(o[0], o[1], 0, o[2]) if len(o) == 3 else (o[0], o[1], o[2], o[3])
+            for o in occupancies]
+
+
 def largest_core(occupancies: Iterable[Occupancy]) -> str | None:
     """The largest noble-gas core whose subshells are all full in the configuration."""
     have = {(n, l): e for n, l, e in occupancies}
@@ -99,34 +108,58 @@ def largest_core(occupancies: Iterable[Occupancy]) -> str | None:
     return None
 
 
-def render(occupancies: Iterable[Occupancy], *, style: str = "plain", core: str = "condense",
-           order: str = "shell", changes: Iterable[tuple[int, int, int]] = (),
-           core_symbol: str | None = None) -> str:
-    """Render occupancies. ``changes`` are extra (n, l, count) tokens such as holes, and
-    ``core_symbol`` forces a core (used when writing holes against a reference)."""
+def render(occupancies: Iterable[tuple[int, ...]], *, style: str = "plain",
+           core: str = "condense", order: str = "shell",
+           changes: Iterable[tuple[int, ...]] = (), core_symbol: str | None = None,
+           split_j: bool = False) -> str:
+    """Render occupancies, (n, l, electrons) or (n, l, 2j, electrons). ``changes`` are extra
+    tokens such as holes (negative counts), ``core_symbol`` forces a core (used when
+    writing holes against a reference), ``split_j`` writes full nl subshells as their two
+    j subshells."""
     _option("style", style, _STYLES)
     _option("core", core, CORE_MODES)
     _option("order", order, ORDERS)
     fmt = _STYLES[style]
-    occ = list(occupancies)
+    occ = _quads(occupancies)
+    nl_view: dict[tuple[int, int], int] = {}
+    for n, l, _, e in occ:
+        nl_view[(n, l)] = nl_view.get((n, l), 0) + e
     symbol = core_symbol if core_symbol is not None else (
-        largest_core(occ) if core == "condense" else None)
+        largest_core((n, l, e) for (n, l), e in nl_view.items()) if core == "condense" else None)
     inside = {(n, l) for n, l, _ in NOBLE_CORES[symbol]} if symbol else set()
-    tokens = [(n, l, e) for n, l, e in occ if (n, l) not in inside and e]
-    tokens.extend(changes)
+    tokens = [t for t in occ if (t[0], t[1]) not in inside and t[3]]
+    if split_j:
+        tokens = [part for t in tokens for part in _split(t)]
+    tokens.extend(_quads(changes))
     key = _ORDER_KEYS[order]
-    tokens.sort(key=lambda t: (key(t[0], t[1]), t[2] >= 0))
-    body = fmt.separator.join(f"{subshell_label(n, l)}{fmt.count(e)}" for n, l, e in tokens)
+    tokens.sort(key=lambda t: (key(t[0], t[1]), t[2], t[3] >= 0))
+    body = fmt.separator.join(_token(fmt, *t) for t in tokens)
     if symbol is None:
         return body
     head = fmt.core.format(symbol=symbol)
     return head + fmt.after_core + body if body else head
 
 
+def _split(token: tuple[int, int, int, int]) -> list[tuple[int, int, int, int]]:
+    n, l, j2, e = token
+    if j2 or l == 0 or e != pauli_limit(l):
+        return [token]
+    return [(n, l, 2 * l - 1, 2 * l), (n, l, 2 * l + 1, 2 * l + 2)]
+
+
+def _token(fmt: Style, n: int, l: int, j2: int, count: int) -> str:
+    if not j2:
+        return f"{subshell_label(n, l)}{fmt.count(count)}"
+    j_count = fmt.j_count or _caret
+    return f"{subshell_label(n, l)}{fmt.j.format(j=f'{j2}/2')}{j_count(count)}"
+
+
 def format_configuration(config: Configuration, *, style: str = "plain", core: str = "condense",
-                         order: str = "shell", holes_relative_to: Any = None) -> str:
+                         order: str = "shell", holes_relative_to: Any = None,
+                         split_j: bool = False) -> str:
     if holes_relative_to is None:
-        return render(config.occupancies, style=style, core=core, order=order)
+        return render([(s.n, s.l, s.j2, s.electrons) for s in config.subshells], style=style,
+                      core=core, order=order, split_j=split_j)
     from ._holes import render_with_holes
 
     return render_with_holes(config, holes_relative_to, style=style, core=core, order=order)

@@ -26,6 +26,7 @@ from ._syntax import (
     Piece,
     RawConfiguration,
     RawCore,
+    Rel,
     Segment,
     SepKind,
     Sub,
@@ -52,6 +53,8 @@ _WORDS = {
     "CARET": "'^'", "LBRACE": "'{'", "RBRACE": "'}'", "LPAR": "'('", "RPAR": "')'",
     "DOLLAR": "'$'", "DASH": "'-'", "MINUS": "'−'", "PLUS": "'+'",
     "PUNCT": "a separator", "WS": "a space", "$END": "the end of the text",
+    "UNDERSCORE": "a separator", "JFRAC": "j such as 1/2", "JMINUS": "'-' (j = l - 1/2)",
+    "JUNDER": "'_' before j", "SUB_OPEN": "'<sub>'", "SUB_CLOSE": "'</sub>'",
 }
 
 
@@ -117,6 +120,33 @@ class _ToRaw(Transformer[Token, Any]):
             pieces.extend(part)
         return tuple(pieces)
 
+    def relativistic(self, children: list[Any]) -> Rel:
+        num, letter, (j2, j_sign) = children[0], children[1], children[2]
+        occupancy = children[3] if len(children) > 3 else None
+        return Rel(str(num), self._at(num), str(letter), j2, j_sign, occupancy)
+
+    def j_fraction(self, children: list[Token]) -> tuple[int, int]:
+        token = next(c for c in children if c.type == "JFRAC")
+        top, bottom = str(token).split("/")
+        if bottom != "2" or int(top) % 2 == 0:
+            raise ConfspecSyntaxError(
+                "syntax", f"j = {token} is not a half-integer such as 1/2 or 3/2",
+                position=self._at(token), text=self.text)
+        return int(top), 0
+
+    def j_minus(self, children: list[Token]) -> tuple[int, int]:
+        return 0, -1
+
+    def j_plus(self, children: list[Token]) -> tuple[int, int]:
+        return 0, 1
+
+    def rel_occ(self, children: list[Any]) -> Closed:
+        result: Closed = children[0]
+        return result
+
+    def occ_caret_open(self, children: list[Any]) -> Closed:
+        return self._closed(children[1])
+
     def bare_count(self, children: list[Token]) -> Bare:
         return Bare(str(children[0]), self._at(children[0]))
 
@@ -178,7 +208,7 @@ class _ToRaw(Transformer[Token, Any]):
         return ("space", self._at(children[0]))
 
     def sep_punct(self, children: list[Token]) -> tuple[SepKind, int]:
-        token = next(c for c in children if c.type == "PUNCT")
+        token = next(c for c in children if c.type in ("PUNCT", "UNDERSCORE"))
         return ("punct", self._at(token))
 
     def sep_dash(self, children: list[Token]) -> tuple[SepKind, int]:

@@ -9,14 +9,17 @@ Models know nothing of lark, the CLI or any adapter: text input is handed to
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from typing import Annotated, Any, ClassVar
+from fractions import Fraction
+from typing import TYPE_CHECKING, Annotated, Any, ClassVar
 
 from pydantic import (
     BaseModel,
     ConfigDict,
     Field,
     PlainSerializer,
+    SerializerFunctionWrapHandler,
     field_validator,
+    model_serializer,
     model_validator,
 )
 from pydantic_core import PydanticCustomError
@@ -24,6 +27,9 @@ from pydantic_core import PydanticCustomError
 from . import _elements
 from ._errors import ConfspecError, ConfspecPhysicsError
 from ._physics import LETTER_TO_L, SUBSHELL_LETTERS, Occupancy, Parity, pauli_limit
+
+if TYPE_CHECKING:  # the chemistry layer is imported lazily, inside the methods
+    from ._ground import Excitation
 
 __all__ = ["Configuration", "ConfigurationRecord", "Element", "Species", "Subshell"]
 
@@ -35,13 +41,17 @@ def _as_pydantic_error(err: ConfspecError) -> PydanticCustomError:
 
 
 class Subshell(BaseModel):
-    """One nl subshell and its occupancy, e.g. ``3d6``."""
+    """One subshell and its occupancy: nl (``3d6``) or, with ``j``, relativistic nlj
+    (``2p3/2^4``)."""
 
     model_config = ConfigDict(frozen=True, extra="forbid")
 
     n: int = Field(ge=1, description="principal quantum number")
     l: int = Field(ge=0, description="orbital angular momentum quantum number")
     electrons: int = Field(ge=0, description="occupancy")
+    j: Fraction | None = Field(
+        default=None, description="total angular momentum j = l ± 1/2 of a relativistic "
+        "subshell; absent for an nl subshell")
 
     @model_validator(mode="before")
     @classmethod
@@ -60,46 +70,66 @@ class Subshell(BaseModel):
     def _check_physics(self) -> Subshell:
         if self.l >= self.n or self.l >= len(SUBSHELL_LETTERS):
             raise PydanticCustomError("invalid-subshell", "l must be below n (and below 16)")
-        if self.electrons > pauli_limit(self.l):
+        if self.j is not None and (self.j.denominator != 2 or abs(self.j - self.l) != Fraction(
+                1, 2)):
+            raise PydanticCustomError("invalid-subshell", "j must be l ± 1/2, not {j}",
+                                      {"j": str(self.j)})
+        if self.electrons > self.capacity:
             raise PydanticCustomError(
                 "pauli-limit", "{label} holds at most {limit} electrons",
-                {"label": self.label, "limit": pauli_limit(self.l)})
+                {"label": self.label, "limit": self.capacity})
         return self
+
+    @model_serializer(mode="wrap")
+    def _drop_absent_j(self, handler: SerializerFunctionWrapHandler) -> dict[str, Any]:
+        data: dict[str, Any] = handler(self)
+        if self.j is None:
+            data.pop("j", None)
+        return data
 
     @property
     def letter(self) -> str:
         return SUBSHELL_LETTERS[self.l]
 
     @property
+    def j2(self) -> int:
+        """Twice j for a relativistic subshell, 0 for an nl subshell."""
+        return 0 if self.j is None else int(2 * self.j)
+
+    @property
     def label(self) -> str:
-        """The subshell without its occupancy, e.g. ``"3d"``."""
-        return f"{self.n}{SUBSHELL_LETTERS[self.l]}"
+        """The subshell without its occupancy, e.g. ``"3d"`` or ``"2p3/2"``."""
+        base = f"{self.n}{SUBSHELL_LETTERS[self.l]}"
+        return base if self.j is None else f"{base}{self.j2}/2"
 
     @property
     def capacity(self) -> int:
-        """Pauli limit 2(2l + 1)."""
-        return pauli_limit(self.l)
+        """Pauli limit: 2(2l + 1) for nl, 2j + 1 for nlj."""
+        return pauli_limit(self.l) if self.j is None else self.j2 + 1
 
     @property
     def is_full(self) -> bool:
-        return self.electrons == pauli_limit(self.l)
+        return self.electrons == self.capacity
 
     def __str__(self) -> str:
-        return f"{self.label}{self.electrons}"
+        if self.j is None:
+            return f"{self.label}{self.electrons}"
+        return f"{self.label}^{self.electrons}"
 
     def __repr__(self) -> str:
         return f"Subshell('{self}')"
 
 
-_SUBSHELL_CACHE: dict[Occupancy, Subshell] = {}
+_SUBSHELL_CACHE: dict[tuple[int, ...], Subshell] = {}
 
 
-def make_subshell(n: int, l: int, electrons: int) -> Subshell:
+def make_subshell(n: int, l: int, electrons: int, j2: int = 0) -> Subshell:
     """An interned Subshell for an occupancy that is already known to be valid."""
-    key = (n, l, electrons)
+    key = (n, l, electrons) if not j2 else (n, l, electrons, j2)
     sub = _SUBSHELL_CACHE.get(key)
     if sub is None:
-        sub = Subshell.model_construct(n=n, l=l, electrons=electrons)
+        sub = Subshell.model_construct(n=n, l=l, electrons=electrons,
+                                       j=Fraction(j2, 2) if j2 else None)
         if len(_SUBSHELL_CACHE) < 50_000:
             _SUBSHELL_CACHE[key] = sub
     return sub
@@ -146,19 +176,23 @@ class Configuration(BaseModel):
     @field_validator("subshells")
     @classmethod
     def _canonical(cls, value: tuple[Subshell, ...]) -> tuple[Subshell, ...]:
-        seen: set[tuple[int, int]] = set()
+        seen: set[tuple[int, int, int]] = set()
         for sub in value:
-            if (sub.n, sub.l) in seen:
+            overlapping = {(sub.n, sub.l, sub.j2)} if sub.j2 else {
+                (sub.n, sub.l, 0), (sub.n, sub.l, 2 * sub.l - 1), (sub.n, sub.l, 2 * sub.l + 1)}
+            if seen & overlapping or (sub.j2 and (sub.n, sub.l, 0) in seen):
                 raise PydanticCustomError("duplicate-subshell", "{label} is given twice",
                                           {"label": sub.label})
-            seen.add((sub.n, sub.l))
-        return tuple(sorted((s for s in value if s.electrons), key=lambda s: (s.n, s.l)))
+            seen.add((sub.n, sub.l, sub.j2))
+        return tuple(sorted((s for s in value if s.electrons), key=lambda s: (s.n, s.l, s.j2)))
 
     # -- construction ------------------------------------------------------------------
     @classmethod
-    def _trusted(cls, occupancies: Iterable[Occupancy]) -> Configuration:
-        """Build from occupancies already checked by the resolver (no re-validation)."""
-        subs = tuple(make_subshell(n, l, e) for n, l, e in sorted(occupancies) if e)
+    def _trusted(cls, occupancies: Iterable[tuple[int, ...]]) -> Configuration:
+        """Build from occupancies already checked by the resolver (no re-validation):
+        (n, l, electrons) or (n, l, 2j, electrons) tuples."""
+        quads = sorted(o if len(o) == 4 else (o[0], o[1], 0, o[2]) for o in occupancies)
+        subs = tuple(make_subshell(n, l, e, j2) for n, l, j2, e in quads if e)
         return cls.model_construct(subshells=subs)
 
     @classmethod
@@ -182,9 +216,12 @@ class Configuration(BaseModel):
         """
         triples: list[Occupancy] = []
         if isinstance(occupancies, Mapping):
+            subs = []
             for label, electrons in occupancies.items():
-                sub = Subshell.model_validate(f"{label}{electrons}" if electrons else label)
-                triples.append((sub.n, sub.l, int(electrons)))
+                mark = "^" if "/" in label else ""
+                sub = Subshell.model_validate(f"{label}{mark}{electrons}" if electrons else label)
+                subs.append(Subshell(n=sub.n, l=sub.l, j=sub.j, electrons=int(electrons)))
+            return cls(subshells=tuple(subs))
         else:
             triples = [(int(n), int(l), int(e)) for n, l, e in occupancies]
         return cls(subshells=tuple(Subshell(n=n, l=l, electrons=e) for n, l, e in triples))
@@ -198,7 +235,18 @@ class Configuration(BaseModel):
     # -- the value ---------------------------------------------------------------------
     @property
     def occupancies(self) -> tuple[Occupancy, ...]:
-        return tuple((s.n, s.l, s.electrons) for s in self.subshells)
+        """(n, l, electrons) per nl subshell; the j subshells of one nl are summed."""
+        if not any(s.j is not None for s in self.subshells):
+            return tuple((s.n, s.l, s.electrons) for s in self.subshells)
+        summed: dict[tuple[int, int], int] = {}
+        for s in self.subshells:
+            summed[(s.n, s.l)] = summed.get((s.n, s.l), 0) + s.electrons
+        return tuple((n, l, e) for (n, l), e in sorted(summed.items()))
+
+    @property
+    def is_relativistic(self) -> bool:
+        """True when some subshell is written as nlj."""
+        return any(s.j is not None for s in self.subshells)
 
     @property
     def electron_count(self) -> int:
@@ -230,8 +278,22 @@ class Configuration(BaseModel):
 
     @property
     def unpaired_electrons(self) -> int:
-        """Unpaired electrons by Hund's first rule, summed over open subshells."""
-        return sum(min(s.electrons, s.capacity - s.electrons) for s in self.open_subshells)
+        """Unpaired electrons by Hund's first rule, summed over the open nl subshells."""
+        return sum(min(e, pauli_limit(l) - e) for _, l, e in self.occupancies)
+
+    def excitations(self, reference: Configuration | Species | str) -> tuple[Excitation, ...]:
+        """Electrons moved relative to a reference (a species means its ground state):
+        ``[str(e) for e in c.excitations("V+")] == ["3d -> 4s"]`` for ``[Ar] 3d3 4s1``."""
+        from ._ground import excitations
+
+        return excitations(self, reference)
+
+    def is_ground_state(self, species: Species | str) -> bool:
+        """Whether this is the species' ground configuration (see ``confspec.ground_level``
+        for whether that is measured, predicted or derived by rule)."""
+        from ._ground import is_ground_state
+
+        return is_ground_state(self, species)
 
     # -- notation ----------------------------------------------------------------------
     def format(self, style: str = "plain", core: str = "condense", order: str = "shell",
@@ -255,8 +317,31 @@ class Configuration(BaseModel):
     def __repr__(self) -> str:
         return f"Configuration('{self}')"
 
+    def boxes(self, form: str = "text", *, order: str = "shell", collapse_core: bool = True,
+              charset: str = "unicode") -> str:
+        """Orbital box diagram (Hund's rule arrows) as text, ``form="svg"`` or ``"html"``.
+
+        >>> print(Configuration.model_validate("[Ne] 3s2 3p4").boxes())
+        [Ne]  closed core, 10 electrons
+        3s²   [↑↓]
+        3p⁴   [↑↓][↑ ][↑ ]
+        """
+        from ._diagrams import box_diagram
+
+        return box_diagram(self, form=form, order=order, collapse_core=collapse_core,
+                           charset=charset)
+
     def _repr_html_(self) -> str:
-        return self.format(style="html")
+        """Notebooks: the canonical text above the box diagram."""
+        from ._diagrams import box_diagram_html
+
+        return (f'<div><div style="margin-bottom:0.3em">{self.format(style="html")}</div>'
+                f"{box_diagram_html(self)}</div>")
+
+    def _repr_svg_(self) -> str:
+        from ._diagrams import box_diagram
+
+        return box_diagram(self, form="svg")
 
     def _repr_latex_(self) -> str:
         return "$" + self.format(style="latex") + "$"

@@ -28,6 +28,8 @@ class RawItem:
     count: int | None = None  # None: no occupancy written (means 1)
     count_position: int | None = None
     hole: bool = False
+    j2: int = 0  # twice j of a relativistic subshell written as a fraction (0: an nl subshell)
+    j_sign: int = 0  # -1 for `2p-` (j = l - 1/2), +1 for `2p+` (j = l + 1/2)
 
 
 @dataclass(frozen=True, slots=True)
@@ -89,8 +91,20 @@ class Bare:
     pos: int
 
 
+@dataclass(frozen=True, slots=True)
+class Rel:
+    """One relativistic subshell nlj with its (marked) occupancy."""
+
+    n: str
+    n_pos: int
+    letter: str
+    j2: int
+    j_sign: int
+    occupancy: Closed | None
+
+
 SepKind = Literal["space", "punct", "dash"]
-Segment = tuple[Piece, ...] | Bare
+Segment = tuple[Piece, ...] | Bare | Rel
 
 
 def _capacity(letter: str) -> int | None:
@@ -185,6 +199,13 @@ def assemble(core: RawCore | None, segments: list[Segment], seps: list[tuple[Sep
     """Join the segments of a body; a bare count attaches to the subshell before it."""
     items: list[RawItem] = []
     for index, segment in enumerate(segments):
+        if isinstance(segment, Rel):
+            occ = segment.occupancy
+            items.append(RawItem(
+                int(segment.n), segment.letter, segment.n_pos,
+                None if occ is None else occ.value, None if occ is None else occ.pos,
+                occ is not None and occ.negative, segment.j2, segment.j_sign))
+            continue
         if not isinstance(segment, Bare):
             items.extend(split_run(segment, text))
             continue
@@ -204,5 +225,6 @@ def assemble(core: RawCore | None, segments: list[Segment], seps: list[tuple[Sep
             raise ConfspecSyntaxError(
                 "syntax", f"{last.n}{last.letter} already has an occupancy", position=segment.pos,
                 text=text)
-        items[-1] = RawItem(last.n, last.letter, last.position, int(segment.digits), segment.pos)
+        items[-1] = RawItem(last.n, last.letter, last.position, int(segment.digits), segment.pos,
+                            False, last.j2, last.j_sign)
     return RawConfiguration(core, tuple(items))

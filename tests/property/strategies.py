@@ -59,3 +59,29 @@ def spellings(draw: st.DrawFn) -> tuple[str, Configuration]:
             sep = " "
         text += sep + token
     return text, config
+
+
+@st.composite
+def relativistic_configurations(draw: st.DrawFn) -> Configuration:
+    """Configurations mixing nl and nlj subshells (j = l ± 1/2, up to 2j + 1 electrons)."""
+    from fractions import Fraction
+
+    from confspec import Subshell
+
+    keys = draw(st.sets(st.tuples(st.integers(2, 7), st.integers(1, 3))
+                        .filter(lambda k: k[1] < k[0]), min_size=1, max_size=5))
+    subs = []
+    for n, l in sorted(keys):
+        if draw(st.booleans()):
+            subs.append(Subshell(n=n, l=l, electrons=draw(st.integers(1, pauli_limit(l)))))
+            continue
+        for j2 in (2 * l - 1, 2 * l + 1):
+            if draw(st.booleans()):
+                subs.append(Subshell(n=n, l=l, j=Fraction(j2, 2),
+                                     electrons=draw(st.integers(1, j2 + 1))))
+    if not subs:
+        subs.append(Subshell(n=2, l=1, j=Fraction(3, 2), electrons=1))
+    # a full pair of j subshells is the full nl subshell: build through the parser's value
+    from confspec import parse
+
+    return parse(" ".join(f"{s.label}^{s.electrons}" for s in subs))

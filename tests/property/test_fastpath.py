@@ -35,7 +35,7 @@ def _full_path(text: str) -> Configuration | None:
         occupancies, errors = resolve(parse_configuration_raw(text), text)
     except ConfspecError:
         return None
-    return None if errors else Configuration.from_occupancies(occupancies)
+    return None if errors else Configuration._trusted(occupancies)
 
 
 def _agree(text: str) -> None:

@@ -7,7 +7,13 @@ from hypothesis import strategies as st
 
 from confspec import Configuration, normalize, parse, validate
 
-from .strategies import configurations, format_options, ground_like, spellings
+from .strategies import (
+    configurations,
+    format_options,
+    ground_like,
+    relativistic_configurations,
+    spellings,
+)
 
 
 @given(configurations(), format_options)
@@ -45,3 +51,10 @@ def test_messy_spellings_parse_to_their_value(case: tuple[str, Configuration]) -
 @given(configurations(), st.sampled_from(["", " ", "\t", "\u00a0"]))
 def test_outer_whitespace_is_notation(config: Configuration, pad: str) -> None:
     assert parse(pad + str(config) + pad) == config
+
+
+@given(relativistic_configurations(), format_options, st.booleans())
+def test_relativistic_configurations_round_trip(config: Configuration, options: dict[str, str],
+                                                split_j: bool) -> None:
+    assert parse(config.format(**options, split_j=split_j)) == config
+    assert Configuration.model_validate_json(config.model_dump_json()) == config
