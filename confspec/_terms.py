@@ -1,0 +1,521 @@
+"""LS term symbols: the Term model, reading term text, every term of a configuration, Hund.
+
+Terms of a configuration come from (ML, MS) microstate-count tables: one table per open
+subshell, built by a small dynamic programme over its 2l + 1 orbitals, then combined by
+convolution. The number of terms with (L, S) is the standard second difference
+N(L, S) − N(L+1, S) − N(L, S+1) + N(L+1, S+1) over the non-negative quadrant. Nothing is
+enumerated over the product of microstates, so ``4f7 5d1 6s1`` takes milliseconds.
+
+Conventions (common practice, no source unless named): term letters S P D F G H I K L M N O
+Q R T U V for L = 0, 1, 2, ... (J skipped); odd parity marked ``°``; J written as an
+integer or as ``n/2``.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from collections.abc import Iterable
+from fractions import Fraction
+from functools import cache
+from typing import TYPE_CHECKING, Any
+
+from pydantic import BaseModel, ConfigDict, Field, model_validator
+from pydantic_core import PydanticCustomError
+
+from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
+from ._physics import Parity, pauli_limit
+
+if TYPE_CHECKING:
+    from ._models import Configuration
+
+__all__ = ["TERM_LETTERS", "Term", "allowed_j", "hund_ground_term", "parse_term", "terms"]
+
+#: Term letters for L = 0, 1, 2, ... (j is skipped). Larger L is written ``[L]``, e.g. ``2[17]``.
+TERM_LETTERS = "SPDFGHIKLMNOQRTUV"
+_LETTER_TO_L = {letter: L for L, letter in enumerate(TERM_LETTERS)}
+
+_SUPERSCRIPT_DIGITS = "⁰¹²³⁴⁵⁶⁷⁸⁹"
+_SUBSCRIPT_DIGITS = "₀₁₂₃₄₅₆₇₈₉"
+_MAX_TERM_TEXT = 200
+
+
+def _j_text(J: Fraction) -> str:
+    return str(J.numerator) if J.denominator == 1 else f"{J.numerator}/{J.denominator}"
+
+
+class Term(BaseModel):
+    """An LS term, optionally with its J: ``5D4``, ``2P°1/2``, ``4S°3/2``, ``3P``.
+
+    >>> t = parse_term("2P°1/2")
+    >>> t.multiplicity, t.L, t.parity, t.J, t.S
+    (2, 1, 'odd', Fraction(1, 2), Fraction(1, 2))
+    >>> str(Term(multiplicity=5, L=2, J=4))
+    '5D4'
+    """
+
+    # A later level-designation layer may add an optional seniority/ordering prefix
+    # (``a``, ``z``, ``(2D)``) as a further field with an empty default; equality of the
+    # fields below must keep meaning "same LS term".
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    multiplicity: int = Field(ge=1, description="2S + 1")
+    L: int = Field(ge=0, description="total orbital angular momentum quantum number")
+    parity: Parity = "even"
+    J: Fraction | None = Field(default=None, description="total angular momentum, if known")
+
+    @model_validator(mode="before")
+    @classmethod
+    def _from_text(cls, data: Any) -> Any:
+        if isinstance(data, str):
+            try:
+                term = parse_term(data)
+            except ConfspecError as err:
+                raise PydanticCustomError(err.code, "{message}", {"message": err.message}
+                                          ) from None
+            return {"multiplicity": term.multiplicity, "L": term.L, "parity": term.parity,
+                    "J": term.J}
+        return data
+
+    @model_validator(mode="after")
+    def _check_j(self) -> Term:
+        problem = _j_problem(self.multiplicity, self.L, self.J)
+        if problem is not None:
+            raise PydanticCustomError("invalid-term", "{message}", {"message": problem})
+        return self
+
+    # -- derived quantities --------------------------------------------------------------
+    @property
+    def S(self) -> Fraction:
+        """Total spin: (multiplicity − 1) / 2."""
+        return Fraction(self.multiplicity - 1, 2)
+
+    @property
+    def letter(self) -> str:
+        """``"D"`` for L = 2; ``"[17]"`` beyond the letters in use."""
+        orbital = self.L
+        return TERM_LETTERS[orbital] if orbital < len(TERM_LETTERS) else f"[{orbital}]"
+
+    @property
+    def is_odd(self) -> bool:
+        return self.parity == "odd"
+
+    @property
+    def weight(self) -> int:
+        """Statistical weight: 2J + 1 for a level, (2S + 1)(2L + 1) for a whole term."""
+        if self.J is not None:
+            return int(2 * self.J + 1)
+        return self.multiplicity * (2 * self.L + 1)
+
+    def allowed_j(self) -> tuple[Fraction, ...]:
+        """|L − S|, |L − S| + 1, ..., L + S."""
+        return _j_values(self.multiplicity, self.L)
+
+    def with_j(self, J: Fraction | int | str | None) -> Term:
+        """The same term with a (validated) J."""
+        return Term(multiplicity=self.multiplicity, L=self.L, parity=self.parity,
+                    J=None if J is None else Fraction(J))
+
+    def without_j(self) -> Term:
+        return _term(self.multiplicity, self.L, self.parity, None)
+
+    @property
+    def sort_key(self) -> tuple[int, int, int, Fraction]:
+        """Conventional listing order: high multiplicity first, then high L, then J."""
+        return (-self.multiplicity, -self.L, self.is_odd,
+                Fraction(-1) if self.J is None else self.J)
+
+    # -- notation ------------------------------------------------------------------------
+    def format(self, style: str = "plain") -> str:
+        """``plain`` 2P°1/2, ``ascii`` 2Po1/2, ``unicode`` ²P°₁/₂, ``latex``
+        ^{2}P^{\\circ}_{1/2}, ``html`` <sup>2</sup>P<sup>o</sup><sub>1/2</sub>.
+
+        Every style reads back with :func:`parse_term`.
+        """
+        mult, letter = str(self.multiplicity), self.letter
+        j = "" if self.J is None else _j_text(self.J)
+        if style == "plain":
+            return f"{mult}{letter}{'°' if self.is_odd else ''}{j}"
+        if style == "ascii":
+            return f"{mult}{letter}{'o' if self.is_odd else ''}{j}"
+        if style == "unicode":
+            sup = str.maketrans("0123456789", _SUPERSCRIPT_DIGITS)
+            sub = str.maketrans("0123456789", _SUBSCRIPT_DIGITS)
+            return (mult.translate(sup) + letter + ("°" if self.is_odd else "")
+                    + j.translate(sub))
+        if style == "latex":
+            return (f"^{{{mult}}}\\mathrm{{{letter}}}" + ("^{\\circ}" if self.is_odd else "")
+                    + (f"_{{{j}}}" if j else ""))
+        if style == "html":
+            return (f"<sup>{mult}</sup>{letter}" + ("<sup>o</sup>" if self.is_odd else "")
+                    + (f"<sub>{j}</sub>" if j else ""))
+        raise ConfspecSyntaxError(
+            "unknown-option", f"unknown term style {style!r}; use one of: "
+            + ", ".join(TERM_STYLES))
+
+    def __format__(self, spec: str) -> str:
+        return self.format(spec) if spec else str(self)
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"Term('{self}')"
+
+    def _repr_latex_(self) -> str:
+        return "$" + self.format("latex") + "$"
+
+
+TERM_STYLES = ("plain", "ascii", "unicode", "latex", "html")
+
+
+def _j_values(multiplicity: int, L: int) -> tuple[Fraction, ...]:
+    S = Fraction(multiplicity - 1, 2)
+    low, high = abs(L - S), L + S
+    return tuple(low + k for k in range(int(high - low) + 1))
+
+
+def _j_problem(multiplicity: int, L: int, J: Fraction | None) -> str | None:
+    if J is None:
+        return None
+    if J < 0 or J.denominator not in (1, 2):
+        return f"J = {J} is not a non-negative integer or half-integer"
+    allowed = _j_values(multiplicity, L)
+    if J not in allowed:
+        S = Fraction(multiplicity - 1, 2)
+        shown = ", ".join(_j_text(j) for j in allowed)
+        return (f"J = {_j_text(J)} is impossible for L = {L}, S = {_j_text(S)}: "
+                f"J runs over |L − S| … L + S = {shown}")
+    return None
+
+
+_TERM_CACHE: dict[tuple[int, int, str, Fraction | None], Term] = {}
+
+
+def _term(multiplicity: int, L: int, parity: Parity, J: Fraction | None) -> Term:
+    """An interned Term for values already known to be consistent."""
+    key = (multiplicity, L, parity, J)
+    term = _TERM_CACHE.get(key)
+    if term is None:
+        term = Term.model_construct(multiplicity=multiplicity, L=L, parity=parity, J=J)
+        if len(_TERM_CACHE) < 100_000:
+            _TERM_CACHE[key] = term
+    return term
+
+
+# ---------------------------------------------------------------------------- reading
+class _Scanner:
+    """A tiny cursor over the term text that keeps source positions for errors."""
+
+    def __init__(self, text: str, start: int, end: int) -> None:
+        self.text, self.pos, self.end = text, start, end
+
+    def rest(self) -> str:
+        return self.text[self.pos:self.end]
+
+    def take(self, *options: str) -> str | None:
+        for option in options:
+            if self.rest().startswith(option):
+                self.pos += len(option)
+                return option
+        return None
+
+    def digits(self, alphabet: str = "0123456789") -> str:
+        start = self.pos
+        while self.pos < self.end and self.text[self.pos] in alphabet:
+            self.pos += 1
+        return "".join(str(alphabet.index(ch)) for ch in self.text[start:self.pos])
+
+    def fail(self, message: str, at: int | None = None) -> ConfspecSyntaxError:
+        return ConfspecSyntaxError("term-syntax", message,
+                                   position=self.pos if at is None else at, text=self.text)
+
+
+_ODD_MARKS = ("^{\\circ}", "^\\circ", "^{o}", "^{°}", "^{*}", "<sup>o</sup>", "<sup>°</sup>",
+              "<sup>*</sup>", "^o", "^°", "^*", "°", "º", "ᵒ", "o", "*")
+
+
+def _multiplicity(scan: _Scanner) -> int:
+    start = scan.pos
+    if scan.take("^{"):
+        value = scan.digits()
+        if not value or not scan.take("}"):
+            raise scan.fail("expected the multiplicity 2S+1 as ^{digits}")
+    elif scan.take("<sup>"):
+        value = scan.digits()
+        if not value or not scan.take("</sup>"):
+            raise scan.fail("expected the multiplicity 2S+1 as <sup>digits</sup>")
+    elif scan.take("^"):
+        value = scan.digits()
+    elif scan.rest()[:1] in _SUPERSCRIPT_DIGITS and scan.rest()[:1]:
+        value = scan.digits(_SUPERSCRIPT_DIGITS)
+    else:
+        value = scan.digits()
+    if not value:
+        raise scan.fail("a term starts with its multiplicity 2S+1, as in 2P°1/2 or 5D4",
+                        at=start)
+    if int(value) < 1:
+        raise ConfspecPhysicsError("invalid-term", "the multiplicity 2S+1 is at least 1",
+                                   position=start, text=scan.text)
+    return int(value)
+
+
+def _orbital(scan: _Scanner) -> int:
+    start = scan.pos
+    if scan.take("\\mathrm{"):
+        L = _orbital(scan)
+        if not scan.take("}"):
+            raise scan.fail("expected '}' after the term letter")
+        return L
+    if scan.take("["):
+        value = scan.digits()
+        if not value or not scan.take("]"):
+            raise scan.fail("expected L as a number in brackets, e.g. [17]")
+        return int(value)
+    letter = scan.rest()[:1]
+    if letter in _LETTER_TO_L:
+        scan.pos += 1
+        return _LETTER_TO_L[letter]
+    if letter == "J":
+        raise scan.fail("J is not a term letter (the letters skip it: ... H I K L ...)")
+    if letter.upper() in _LETTER_TO_L and letter:
+        raise scan.fail(f"term letters are upper case: {letter.upper()!r}, not {letter!r} "
+                        f"(lower case names a subshell)", at=start)
+    if not letter:
+        raise scan.fail("the term ends too early; expected a term letter (S P D F G H ...)")
+    raise scan.fail(f"unexpected {letter!r}; expected a term letter (S P D F G H I K ...)")
+
+
+def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
+    start = scan.pos
+    close = ""
+    if scan.take("_{"):
+        close = "}"
+    elif scan.take("<sub>"):
+        close = "</sub>"
+    elif scan.take("_"):
+        pass
+    if scan.rest()[:1] and scan.rest()[:1] in _SUBSCRIPT_DIGITS:
+        alphabet = _SUBSCRIPT_DIGITS
+    else:
+        alphabet = "0123456789"
+    number_at = scan.pos
+    top = scan.digits(alphabet)
+    if not top:
+        if scan.pos != start:
+            raise scan.fail("expected J after '_'")
+        return None
+    bottom = "1"
+    if scan.take("/", "⁄"):
+        bottom = scan.digits(alphabet) or scan.digits()
+        if not bottom:
+            raise scan.fail("expected the denominator of J, as in 3/2")
+    if close and not scan.take(close):
+        raise scan.fail(f"expected {close!r} after J")
+    if int(bottom) == 0:
+        raise ConfspecPhysicsError("invalid-term", "J has a zero denominator",
+                                   position=number_at, text=scan.text)
+    return Fraction(int(top), int(bottom)), number_at
+
+
+def parse_term(text: str) -> Term:
+    """Read a term symbol: ``5D4``, ``2P°1/2``, ``^{2}P^{o}_{1/2}``, ``2Po1/2``, ``2P*1/2``,
+    ``²P°₁/₂``, ``<sup>2</sup>P<sup>o</sup><sub>1/2</sub>``, or without J (``3P``).
+
+    Odd parity may be marked ``°``, ``o``, ``*`` (also as a superscript); no mark means
+    even. Errors are :class:`~confspec.ConfspecError` with code ``term-syntax`` (the
+    notation) or ``invalid-term`` (J impossible for L and S).
+
+    >>> str(parse_term("^{2}P^{o}_{1/2}")), str(parse_term("2P*1/2"))
+    ('2P°1/2', '2P°1/2')
+    """
+    if not isinstance(text, str):
+        raise TypeError(f"a term must be a str, not {type(text).__name__}")
+    if len(text) > _MAX_TERM_TEXT:
+        raise ConfspecSyntaxError("too-long", f"{len(text)} characters is too long for a term",
+                                  text=text[:60] + "…")
+    stripped = text.strip()
+    if not stripped:
+        raise ConfspecSyntaxError("empty", "the term is empty", position=0, text=text)
+    start = len(text) - len(text.lstrip())
+    scan = _Scanner(text, start, start + len(stripped))
+    multiplicity = _multiplicity(scan)
+    L = _orbital(scan)
+    parity: Parity = "odd" if scan.take(*_ODD_MARKS) else "even"
+    found = _j(scan)
+    if scan.pos != scan.end:
+        raise scan.fail(f"unexpected {scan.text[scan.pos]!r} after the term; expected "
+                        "a parity mark (°, o, *) or J")
+    J, j_at = found if found is not None else (None, None)
+    problem = _j_problem(multiplicity, L, J)
+    if problem is not None:
+        raise ConfspecPhysicsError("invalid-term", problem, position=j_at, text=text)
+    return _term(multiplicity, L, parity, J)
+
+
+def _as_term(term: Term | str) -> Term:
+    return parse_term(term) if isinstance(term, str) else term
+
+
+def allowed_j(term: Term | str) -> list[Fraction]:
+    """The J values of a term, |L − S| … L + S; each level has weight 2J + 1.
+
+    >>> [str(j) for j in allowed_j("3P")]
+    ['0', '1', '2']
+    """
+    return list(_as_term(term).allowed_j())
+
+
+# ---------------------------------------------------------------------------- all terms
+Table = dict[tuple[int, int], int]  # (ML, 2·MS) -> number of microstates
+
+
+@cache
+def subshell_table(l: int, electrons: int) -> Table:
+    """Microstate counts by (ML, 2MS) for l^electrons, by a pass over the 2l + 1 orbitals.
+
+    Each orbital takes no electron, one (spin up or down) or two (paired); the table for k
+    electrons equals the table for the complementary number of holes.
+    """
+    capacity = pauli_limit(l)
+    k = min(electrons, capacity - electrons)
+    states: dict[tuple[int, int, int], int] = {(0, 0, 0): 1}
+    for m in range(-l, l + 1):
+        nxt: dict[tuple[int, int, int], int] = defaultdict(int)
+        for (e, ML, MS2), count in states.items():
+            nxt[(e, ML, MS2)] += count
+            if e + 1 <= k:
+                nxt[(e + 1, ML + m, MS2 + 1)] += count
+                nxt[(e + 1, ML + m, MS2 - 1)] += count
+            if e + 2 <= k:
+                nxt[(e + 2, ML + 2 * m, MS2)] += count
+        states = nxt
+    return {(ML, MS2): c for (e, ML, MS2), c in states.items() if e == k}
+
+
+def _convolve(a: Table, b: Table) -> Table:
+    out: Table = defaultdict(int)
+    for (ml1, ms1), c1 in a.items():
+        for (ml2, ms2), c2 in b.items():
+            out[(ml1 + ml2, ms1 + ms2)] += c1 * c2
+    return dict(out)
+
+
+def _open(configuration: Configuration) -> list[tuple[int, int]]:
+    """(l, electrons) of each open nl subshell (nlj subshells of one nl are summed)."""
+    return [(l, e) for _, l, e in configuration.occupancies if e < pauli_limit(l)]
+
+
+def _as_configuration(configuration: Configuration | str) -> Configuration:
+    from ._models import Configuration
+
+    if isinstance(configuration, Configuration):
+        return configuration
+    if isinstance(configuration, str):
+        from ._api import parse
+
+        return parse(configuration)
+    raise TypeError(f"expected a Configuration or a str, not {type(configuration).__name__}")
+
+
+def microstate_count(configuration: Configuration | str) -> int:
+    """Number of microstates: the product of C(2(2l+1), k) over the subshells."""
+    config = _as_configuration(configuration)
+    return math.prod(math.comb(pauli_limit(l), e) for _, l, e in config.occupancies)
+
+
+def term_multiplicities(open_subshells: Iterable[tuple[int, int]]) -> dict[tuple[int, int], int]:
+    """How often each (2S+1, L) occurs among the terms of the given (l, electrons) list."""
+    table: Table = {(0, 0): 1}
+    for l, electrons in open_subshells:
+        table = _convolve(table, subshell_table(l, electrons))
+    counts: dict[tuple[int, int], int] = {}
+    for (ML, MS2), n in table.items():
+        if ML < 0 or MS2 < 0:
+            continue
+        repeats = (n - table.get((ML + 1, MS2), 0) - table.get((ML, MS2 + 2), 0)
+                   + table.get((ML + 1, MS2 + 2), 0))
+        if repeats:
+            counts[(MS2 + 1, ML)] = repeats
+    return counts
+
+
+#: terms() refuses to list more terms than this (several open f and g subshells have
+#: millions); term_multiplicities() gives the counts of any configuration.
+MAX_LISTED_TERMS = 200_000
+
+
+def terms(configuration: Configuration | str) -> list[Term]:
+    """Every LS term of a configuration, repeated terms listed as often as they occur.
+
+    Listed by multiplicity (high first), then L (high first); J is left open (see
+    :func:`allowed_j`). Closed shells give ``1S``.
+
+    >>> [str(t) for t in terms("2p2")]
+    ['3P', '1D', '1S']
+    >>> [str(t) for t in terms("3d3")]
+    ['4F', '4P', '2H', '2G', '2F', '2D', '2D', '2P']
+    """
+    config = _as_configuration(configuration)
+    parity = config.parity
+    counts = _cached_counts(tuple(sorted(_open(config))))
+    total = sum(counts.values())
+    if total > MAX_LISTED_TERMS:
+        raise ConfspecPhysicsError(
+            "too-many-terms", f"{config} has {total:,} LS terms; listing them would exhaust "
+            f"memory (limit {MAX_LISTED_TERMS:,}); use term_multiplicities() for the counts")
+    out: list[Term] = []
+    for (multiplicity, L), repeats in sorted(counts.items(), key=lambda kv: (-kv[0][0],
+                                                                            -kv[0][1])):
+        out.extend([_term(multiplicity, L, parity, None)] * repeats)
+    return out
+
+
+def term_keys(configuration: Configuration | str) -> set[tuple[int, int]]:
+    """The distinct (2S, L) of a configuration's terms, without listing repeats (cheap even
+    when a configuration has millions of terms)."""
+    config = _as_configuration(configuration)
+    return {(multiplicity - 1, L)
+            for multiplicity, L in _cached_counts(tuple(sorted(_open(config))))}
+
+
+@cache
+def _cached_counts(open_subshells: tuple[tuple[int, int], ...]) -> dict[tuple[int, int], int]:
+    return term_multiplicities(open_subshells)
+
+
+# ---------------------------------------------------------------------------- Hund
+def _hund_subshell(l: int, electrons: int) -> tuple[int, int]:
+    """(ML, 2MS) of Hund's microstate: spin-up electrons from m = +l down, then spin-down."""
+    orbitals = 2 * l + 1
+    up = min(electrons, orbitals)
+    down = electrons - up
+    ML = sum(range(l, l - up, -1)) + sum(range(l, l - down, -1))
+    return ML, up - down
+
+
+def hund_ground_term(configuration: Configuration | str) -> Term:
+    """The ground term by Hund's three rules, with J.
+
+    1. largest S; 2. largest L for that S; 3. J = |L − S| when the open subshell(s) are at
+    most half full, J = L + S when more than half full.
+
+    Convention for several open subshells (ours, stated so results are reproducible): the
+    first two rules take each open subshell at its own Hund term and add the spins and
+    orbital momenta (this is exactly the largest S, then largest L, among all terms of the
+    configuration); the third rule counts the open electrons together against half the
+    summed capacity of the open subshells (``4f7 5d1``: 8 of 24, so J = |L − S|, giving
+    ``9D°2`` as measured for Gd). Closed shells give ``1S0``.
+
+    >>> str(hund_ground_term("[Ar] 3d6 4s2")), str(hund_ground_term("[Xe] 4f7 5d1 6s2"))
+    ('5D4', '9D°2')
+    """
+    config = _as_configuration(configuration)
+    ML = MS2 = electrons = capacity = 0
+    for l, k in _open(config):
+        ml, ms2 = _hund_subshell(l, k)
+        ML, MS2 = ML + ml, MS2 + ms2
+        electrons, capacity = electrons + k, capacity + pauli_limit(l)
+    S = Fraction(MS2, 2)
+    J = abs(ML - S) if 2 * electrons <= capacity else ML + S
+    return _term(MS2 + 1, ML, config.parity, J)
