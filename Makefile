@@ -24,16 +24,23 @@ lint: $(VENV)/.dev-installed
 typecheck: $(VENV)/.dev-installed
 	$(PY) -m mypy --strict confspec
 
+# PostgreSQL tests: scripts/postgres-up.sh starts a local server (127.0.0.1 only) and prints
+# its URL, or "unavailable: <reason>", which the tests show when they skip.
 test: lint typecheck
-	$(PY) -m pytest
+	@url=$$(bash scripts/postgres-up.sh); \
+	case "$$url" in postgresql*) echo "PostgreSQL for the tests at $${url##*@}";; \
+	  *) echo "PostgreSQL tests will be skipped: $$url";; esac; \
+	CONFSPEC_TEST_POSTGRES_URL="$${CONFSPEC_TEST_POSTGRES_URL:-$$url}" $(PY) -m pytest
 
 demo: $(VENV)/.demo-installed
 	$(PY) examples/demo.py
 
 bench: $(VENV)/.dev-installed
 	$(PY) benchmarks/bench_parse.py
+	$(PY) benchmarks/bench_cli.py
 
 docs: $(VENV)/.dev-installed
+	MPLBACKEND=Agg $(PY) scripts/make_figures.py
 	$(PY) -m mkdocs build --strict
 
 clean:
