@@ -116,6 +116,28 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
      "A published table has no value for the request (Clementi–Raimondi: neutral ground-state "
      "atoms Z = 1–36, occupied subshells only).",
      "Use model='slater', or ask for a tabulated atom and subshell."),
+    ("too-many-terms", "physics",
+     "terms() was asked to list the terms of a configuration that has more than 200,000 of "
+     "them (several open f or g subshells).",
+     "Use term_multiplicities() for the count of each (2S+1, L)."),
+    # -- level designations: configuration + term + J ------------------------------------
+    ("term-not-allowed", "physics",
+     "The term is not an LS term of the configuration ('2p2 1P'), or cannot be reached by "
+     "coupling the parent terms with the electrons after them ('3d6(5D)4s 8D').",
+     "Check the term against confspec.terms(configuration) and the parents."),
+    ("parent-not-allowed", "physics",
+     "A parent term that the subconfiguration to its left cannot have ('3d6(4S)').",
+     "Check the parent against confspec.terms() of that subconfiguration."),
+    ("j-not-allowed", "physics",
+     "J outside |L − S| … L + S for the term ('3P3').",
+     "Correct J or the term (confspec.allowed_j lists the values)."),
+    ("parity-mismatch", "physics",
+     "The parity mark disagrees with the configuration's parity ('2p 2P' without °, "
+     "'3d 2D°').",
+     "Mark odd terms with °, o or *; the parity is that of the sum of l over all electrons."),
+    ("unknown-xray-level", "syntax",
+     "An IUPAC X-ray level name that does not exist ('L4', 'K2', 'M6').",
+     "Use K, L1–L3, M1–M5, N1–N7, O1–O7, P1–P7, Q1, or a combined edge such as L2,3."),
 )
 
 

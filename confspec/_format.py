@@ -99,16 +99,24 @@ def _quads(occupancies: Iterable[tuple[int, ...]]) -> list[tuple[int, int, int, 
             for o in occupancies]
 
 
+_CORE_SETS = [(symbol, frozenset(NOBLE_CORES[symbol]),
+               frozenset((n, l) for n, l, _ in NOBLE_CORES[symbol]))
+              for symbol in CORES_LARGEST_FIRST]
+
+
 def largest_core(occupancies: Iterable[Occupancy]) -> str | None:
     """The largest noble-gas core whose subshells are all full in the configuration."""
-    have = {(n, l): e for n, l, e in occupancies}
-    for symbol in CORES_LARGEST_FIRST:
-        if all(have.get((n, l)) == e for n, l, e in NOBLE_CORES[symbol]):
+    have = frozenset(occupancies)
+    for symbol, core, _ in _CORE_SETS:
+        if core <= have:
             return symbol
     return None
 
 
-def render(occupancies: Iterable[tuple[int, ...]], *, style: str = "plain",
+_CORE_INSIDE = {symbol: inside for symbol, _, inside in _CORE_SETS}
+
+
+def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, int]], *, style: str = "plain",
            core: str = "condense", order: str = "shell",
            changes: Iterable[tuple[int, ...]] = (), core_symbol: str | None = None,
            split_j: bool = False) -> str:
@@ -116,24 +124,39 @@ def render(occupancies: Iterable[tuple[int, ...]], *, style: str = "plain",
     tokens such as holes (negative counts), ``core_symbol`` forces a core (used when
     writing holes against a reference), ``split_j`` writes full nl subshells as their two
     j subshells."""
-    _option("style", style, _STYLES)
-    _option("core", core, CORE_MODES)
-    _option("order", order, ORDERS)
-    fmt = _STYLES[style]
-    occ = _quads(occupancies)
-    nl_view: dict[tuple[int, int], int] = {}
-    for n, l, _, e in occ:
-        nl_view[(n, l)] = nl_view.get((n, l), 0) + e
-    symbol = core_symbol if core_symbol is not None else (
-        largest_core((n, l, e) for (n, l), e in nl_view.items()) if core == "condense" else None)
-    inside = {(n, l) for n, l, _ in NOBLE_CORES[symbol]} if symbol else set()
+    fmt = _STYLES.get(style)
+    if fmt is None or core not in CORE_MODES or order not in ORDERS:
+        _option("style", style, _STYLES)
+        _option("core", core, CORE_MODES)
+        _option("order", order, ORDERS)
+        raise AssertionError("unreachable")  # pragma: no cover
+    occ = occupancies if isinstance(occupancies, list) and (
+        not occupancies or len(occupancies[0]) == 4) else _quads(occupancies)
+    if core_symbol is not None:
+        symbol: str | None = core_symbol
+    elif core == "condense":
+        if any(t[2] for t in occ):
+            nl_view: dict[tuple[int, int], int] = {}
+            for n, l, _, e in occ:
+                nl_view[(n, l)] = nl_view.get((n, l), 0) + e
+            symbol = largest_core((n, l, e) for (n, l), e in nl_view.items())
+        else:
+            symbol = largest_core((n, l, e) for n, l, _, e in occ)
+    else:
+        symbol = None
+    inside = _CORE_INSIDE[symbol] if symbol else frozenset()
     tokens = [t for t in occ if (t[0], t[1]) not in inside and t[3]]
     if split_j:
         tokens = [part for t in tokens for part in _split(t)]
-    tokens.extend(_quads(changes))
-    key = _ORDER_KEYS[order]
-    tokens.sort(key=lambda t: (key(t[0], t[1]), t[2], t[3] >= 0))
-    body = fmt.separator.join(_token(fmt, *t) for t in tokens)
+    if changes:
+        tokens.extend(_quads(changes))
+    if order == "filling" or changes:
+        key = _ORDER_KEYS[order]
+        tokens.sort(key=lambda t: (key(t[0], t[1]), t[2], t[3] >= 0))
+    else:  # shell order is the model's own order: (n, l, 2j)
+        tokens.sort()
+    cache = _TOKEN_TEXT
+    body = fmt.separator.join([cache.get((style, *t)) or _cached_token(fmt, t) for t in tokens])
     if symbol is None:
         return body
     head = fmt.core.format(symbol=symbol)
@@ -145,6 +168,16 @@ def _split(token: tuple[int, int, int, int]) -> list[tuple[int, int, int, int]]:
     if j2 or l == 0 or e != pauli_limit(l):
         return [token]
     return [(n, l, 2 * l - 1, 2 * l), (n, l, 2 * l + 1, 2 * l + 2)]
+
+
+_TOKEN_TEXT: dict[tuple[Any, ...], str] = {}
+
+
+def _cached_token(fmt: Style, t: tuple[int, ...]) -> str:
+    text = _token(fmt, *t)
+    if len(_TOKEN_TEXT) < 100_000:
+        _TOKEN_TEXT[(fmt.name, *t)] = text
+    return text
 
 
 def _token(fmt: Style, n: int, l: int, j2: int, count: int) -> str:

@@ -55,6 +55,8 @@ _WORDS = {
     "PUNCT": "a separator", "WS": "a space", "$END": "the end of the text",
     "UNDERSCORE": "a separator", "JFRAC": "j such as 1/2", "JMINUS": "'-' (j = l - 1/2)",
     "JUNDER": "'_' before j", "SUB_OPEN": "'<sub>'", "SUB_CLOSE": "'</sub>'",
+    "XRAY": "an X-ray level such as L3", "TERM": "a term such as 5D4",
+    "PARENT": "a parent term such as (5D)", "UNCERTAIN": "'?'", "LABEL_SEP": "':' or '='",
 }
 
 
@@ -67,6 +69,29 @@ def _expected_words(names: set[str] | frozenset[str]) -> str:
 
 def _pos(token: Token) -> int:
     return int(token.start_pos or 0)
+
+
+@dataclass(frozen=True)
+class RawLevel:
+    """A level designation before policy: label, configuration, parents, term, mark."""
+
+    label: tuple[str, int, int, str] | None  # (symbol, position, charge, convention)
+    configuration: RawConfiguration
+    parents: tuple[tuple[int, str, int], ...]  # (items before it, text, position)
+    term: tuple[str, int] | None
+    uncertain: tuple[str, int] | None
+
+
+@dataclass(frozen=True)
+class _Gap:
+    sep: tuple[SepKind, int] | None
+    parent: Token | None
+
+
+@dataclass(frozen=True)
+class _Tail:
+    term: tuple[str, int] | None
+    uncertain: tuple[str, int] | None
 
 
 @dataclass
@@ -124,6 +149,15 @@ class _ToRaw(Transformer[Token, Any]):
         num, letter, (j2, j_sign) = children[0], children[1], children[2]
         occupancy = children[3] if len(children) > 3 else None
         return Rel(str(num), self._at(num), str(letter), j2, j_sign, occupancy)
+
+    def xray(self, children: list[Any]) -> Rel:
+        token, occupancy = children[0], children[1]
+        from ._physics import SUBSHELL_LETTERS
+        from ._xray import xray_level
+
+        level = xray_level(str(token), text=self.text, position=self._at(token))
+        return Rel(str(level.n), self._at(token), SUBSHELL_LETTERS[level.l],
+                   level.j2 if level.l else 0, 0, occupancy)
 
     def j_fraction(self, children: list[Token]) -> tuple[int, int]:
         token = next(c for c in children if c.type == "JFRAC")
@@ -214,6 +248,87 @@ class _ToRaw(Transformer[Token, Any]):
     def sep_dash(self, children: list[Token]) -> tuple[SepKind, int]:
         token = next(c for c in children if c.type == "DASH")
         return ("dash", self._at(token))
+
+    # -- level designations -----------------------------------------------------------
+    def level(self, children: list[Any]) -> RawLevel:
+        label = children[0] if isinstance(children[0], tuple) else None
+        body: RawLevel = children[-1]
+        return RawLevel(label, body.configuration, body.parents, body.term, body.uncertain)
+
+    def level_bare_core(self, children: list[Any]) -> RawLevel:
+        token, body = children[0], children[-1]
+        core = RawCore(str(token), self._at(token), False)
+        return RawLevel(None, RawConfiguration(core, body.configuration.items), body.parents,
+                        body.term, body.uncertain)
+
+    def level_body(self, children: list[Any]) -> RawLevel:
+        core_token = children[0] if isinstance(children[0], Token) else None
+        body = children[-1] if isinstance(children[-1], RawLevel) else RawLevel(
+            None, RawConfiguration(None, ()), (), None, None)
+        tail = children[-1] if isinstance(children[-1], _Tail) else None
+        if tail is not None:
+            body = RawLevel(None, body.configuration, (), tail.term, tail.uncertain)
+        if core_token is None:
+            return body
+        inner = str(core_token)[1:-1]
+        inner = re.sub(r"\\(?:mathrm|text|rm|mathit)\s*\{([^{}]*)\}", r"\1", inner)
+        core = RawCore(inner.strip(), self._at(core_token), True)
+        return RawLevel(None, RawConfiguration(core, body.configuration.items), body.parents,
+                        body.term, body.uncertain)
+
+    def label(self, children: list[Any]) -> tuple[str, int, int, str]:
+        element = children[0]
+        charge = next((c for c in children if isinstance(c, tuple)), (0, "none"))
+        return str(element), self._at(element), charge[0], charge[1]
+
+    def spectrum_label(self, children: list[Any]) -> tuple[str, int, int, str]:
+        element = children[0]
+        numeral = next(c for c in children[1:] if isinstance(c, Token) and c.type == "ROMAN")
+        value = _roman(str(numeral), self._at(numeral), self.text)
+        return str(element), self._at(element), value - 1, "spectrum"
+
+    def lbody(self, children: list[Any]) -> RawLevel:
+        segments: list[Segment] = []
+        seps: list[tuple[SepKind, int]] = []
+        parent_after: list[tuple[int, str, int]] = []  # (segments so far, text, position)
+        tail: _Tail | None = None
+        for child in children:
+            if isinstance(child, _Tail):
+                tail = child
+            elif isinstance(child, Token) and child.type == "PARENT":
+                parent_after.append((len(segments), str(child), self._at(child)))
+            elif isinstance(child, _Gap):
+                if child.parent is not None:
+                    parent_after.append((len(segments), str(child.parent),
+                                         self._at(child.parent)))
+                seps.append(child.sep if child.sep is not None else
+                            ("punct", self._at(child.parent) if child.parent else 0))
+            else:
+                segments.append(child)
+        config = assemble(None, segments, seps, self.text)
+        parents = tuple(
+            (len(assemble(None, segments[:k], seps[:max(k - 1, 0)], self.text).items), text, pos)
+            for k, text, pos in parent_after)
+        return RawLevel(None, config, parents, tail.term if tail else None,
+                        tail.uncertain if tail else None)
+
+    def gap_plain(self, children: list[Any]) -> _Gap:
+        return _Gap(children[0], None)
+
+    def gap_parent(self, children: list[Any]) -> _Gap:
+        return _Gap(children[1] if len(children) > 1 else None, children[0])
+
+    def level_tail(self, children: list[Any]) -> _Tail:
+        term = next((c for c in children if isinstance(c, tuple)), None)
+        mark = next((c for c in children if isinstance(c, Token) and c.type == "UNCERTAIN"),
+                    None)
+        return _Tail(term, None if mark is None else (str(mark), self._at(mark)))
+
+    def term_text(self, children: list[Token]) -> tuple[str, int]:
+        return str(children[0]), self._at(children[0])
+
+    def term(self, children: list[Token]) -> tuple[str, int]:
+        return str(children[0]), self._at(children[0])
 
     # -- species ----------------------------------------------------------------------
     def species(self, children: list[Any]) -> tuple[str, int, int, str]:
@@ -353,6 +468,18 @@ def _run(start: str, text: str, what: str) -> Any:
 def parse_configuration_raw(text: str) -> RawConfiguration:
     """Text to :class:`RawConfiguration` through the grammar (raises ConfspecSyntaxError)."""
     result: RawConfiguration = _run("configuration", text, "configuration")
+    return result
+
+
+def parse_level_raw(text: str) -> RawLevel:
+    """Text to :class:`RawLevel` through the grammar's ``level`` rule."""
+    result: RawLevel = _run("level", text, "level designation")
+    return result
+
+
+def parse_term_raw(text: str) -> tuple[str, int]:
+    """The term token of ``text`` (the grammar's ``term`` rule) and its position."""
+    result: tuple[str, int] = _run("term", text, "term")
     return result
 
 

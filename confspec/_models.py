@@ -184,7 +184,12 @@ class Configuration(BaseModel):
                 raise PydanticCustomError("duplicate-subshell", "{label} is given twice",
                                           {"label": sub.label})
             seen.add((sub.n, sub.l, sub.j2))
-        return tuple(sorted((s for s in value if s.electrons), key=lambda s: (s.n, s.l, s.j2)))
+        if not any(s.j is not None for s in value):
+            return tuple(sorted((s for s in value if s.electrons), key=lambda s: (s.n, s.l)))
+        from ._resolve import canonical  # full j pairs are the full nl subshell (value model)
+
+        merged = canonical({(s.n, s.l, s.j2): s.electrons for s in value})
+        return tuple(make_subshell(n, l, e, j2) for n, l, j2, e in merged)
 
     # -- construction ------------------------------------------------------------------
     @classmethod

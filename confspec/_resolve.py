@@ -76,7 +76,9 @@ def _take_hole(source: dict[Key, int], key: Key) -> int | None:
         source[(n, l, 2 * l - 1)], source[(n, l, 2 * l + 1)] = lower, upper
         return source[key]
     if not j2 and any((n, l, j) in source for j in (2 * l - 1, 2 * l + 1)):
-        return sum(source.pop((n, l, j), 0) for j in (2 * l - 1, 2 * l + 1)) or None
+        merged = sum(source.pop((n, l, j), 0) for j in (2 * l - 1, 2 * l + 1))
+        source[key] = merged  # the j parts become one nl subshell again
+        return merged
     return None
 
 

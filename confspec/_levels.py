@@ -1,0 +1,395 @@
+"""Level designations: a configuration with parent terms, a term, J, a label and a mark.
+
+``3d6(5D)4s 6D9/2``, ``Fe II 3d7(4F)4s4p(3P°) z6G°13/2``, ``Fe3+: [Ar] 3d5``. The grammar's
+``level`` rule reads the shape; this module turns it into a frozen :class:`Level` and checks
+that its parts agree: every parent is a term of the subconfiguration to its left, the final
+term is reachable by coupling the parents with the electrons after them (or is a term of the
+configuration), J lies in |L − S| … L + S, the parity mark matches the configuration, and
+the electron count matches the species.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterable
+from fractions import Fraction
+from typing import Any
+
+from pydantic import BaseModel, ConfigDict, Field
+
+from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
+from ._models import Configuration, Species
+from ._physics import Parity
+from ._terms import TERM_LETTERS, Term, _term, term_keys
+
+__all__ = ["Level", "ParentTerm", "parse_level", "validate_level"]
+
+_SUP = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+_SUB = str.maketrans("₀₁₂₃₄₅₆₇₈₉", "0123456789")
+
+# The parts of one TERM or PARENT token of the grammar (the token's extent is the grammar's
+# business; a property test checks this pattern reads every token the grammar produces).
+_TERM_PARTS = re.compile(r"""
+    \(?(?P<prefix>[a-z])?
+    (?:\^\{(?P<m1>[0-9]+)\}|\^(?P<m2>[0-9]+)|<sup>(?P<m3>[0-9]+)</sup>|(?P<m4>[0-9]+)
+       |(?P<m5>[⁰¹²³⁴⁵⁶⁷⁸⁹]+))
+    (?:(?P<letter>[SPDFGHIKLMNOQRTUV])|\[(?P<lnum>[0-9]+)\])
+    (?P<odd>°|º|ᵒ|\^\{?(?:o|°|\*|\\circ)\}?|<sup>(?:o|°|\*)</sup>|o|\*)?
+    (?:_\{(?P<j1>[0-9]+(?:/2)?)\}|_(?P<j2>[0-9]+(?:/2)?)|<sub>(?P<j3>[0-9]+(?:/2)?)</sub>
+       |<(?P<j4>[0-9]+(?:/2)?)>|(?P<j5>[0-9]+(?:/2)?)|(?P<j6>[₀₁₂₃₄₅₆₇₈₉]+(?:/₂)?))?
+    \)?""", re.VERBOSE)
+
+
+def read_term_token(token: str, position: int, text: str
+                    ) -> tuple[Term, Fraction | None, str | None]:
+    """(term without J, J, seniority letter) of one term token; J is checked later."""
+    match = _TERM_PARTS.fullmatch(token)
+    if match is None:  # pragma: no cover - the grammar only hands over term-shaped tokens
+        raise ConfspecSyntaxError("term-syntax", f"{token!r} is not a term", position=position,
+                                  text=text)
+    parts = match.groupdict()
+    mult_text = next(parts[k] for k in ("m1", "m2", "m3", "m4", "m5") if parts[k])
+    multiplicity = int(mult_text.translate(_SUP))
+    if multiplicity < 1:
+        raise ConfspecPhysicsError("invalid-term", "the multiplicity 2S+1 is at least 1",
+                                   position=position, text=text)
+    L = TERM_LETTERS.index(parts["letter"]) if parts["letter"] else int(parts["lnum"])
+    parity: Parity = "odd" if parts["odd"] else "even"
+    j_text = next((parts[k] for k in ("j1", "j2", "j3", "j4", "j5", "j6") if parts[k]), None)
+    J = None if j_text is None else Fraction(j_text.translate(_SUB).replace("₂", "2"))
+    return _term(multiplicity, L, parity, None), J, parts["prefix"]
+
+
+class ParentTerm(BaseModel):
+    """An intermediate (parent) term and the subshells of the subconfiguration it closes."""
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    term: Term
+    subshells: tuple[str, ...] = Field(description="labels of the subconfiguration")
+    seniority: str | None = None
+
+    def __str__(self) -> str:
+        return f"({self.seniority or ''}{self.term})"
+
+
+class Level(BaseModel):
+    """A level designation: configuration, parents, term, J, species and uncertainty.
+
+    >>> level = parse_level("Fe II 3d6(5D)4s 6D9/2")
+    >>> str(level.configuration), str(level.term), level.J, level.statistical_weight
+    ('3d6 4s1', '6D9/2', Fraction(9, 2), 10)
+    >>> str(level.species), [str(p) for p in level.parents]
+    ('Fe+', ['(5D)'])
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    configuration: Configuration
+    term: Term | None = None
+    seniority: str | None = Field(default=None, description="ordering letter: a6D, z7P°")
+    parents: tuple[ParentTerm, ...] = ()
+    uncertain: str | None = Field(default=None, description="'?' or 'predicted'")
+    species: Species | None = None
+
+    @property
+    def J(self) -> Fraction | None:
+        return None if self.term is None else self.term.J
+
+    @property
+    def parity(self) -> Parity:
+        """The parity of the configuration (the term's mark must agree)."""
+        return self.configuration.parity
+
+    @property
+    def statistical_weight(self) -> int | None:
+        """2J + 1, when J is known."""
+        return None if self.J is None else int(2 * self.J + 1)
+
+    def format(self, style: str = "plain", core: str = "condense", order: str = "shell") -> str:
+        """The canonical designation; styles plain, latex, html (and every configuration
+        style for the configuration part). Reads back with :func:`parse_level`."""
+        from ._format import _STYLES, _token, render
+
+        config_style = style if style in _STYLES else "plain"
+        fmt = _STYLES[config_style]
+        parts: list[str] = []
+        if self.species is not None:
+            sp = self.species
+            parts.append(f"{sp.format('spectrum')} " if sp.charge >= 0 else f"{sp}: ")
+        subs = {s.label: s for s in self.configuration.subshells}
+        if not self.parents:
+            body = self.configuration.format(style=config_style, core=core, order=order)
+        else:
+            grouped = {label for parent in self.parents for label in parent.subshells}
+            rest = [s for s in self.configuration.subshells if s.label not in grouped]
+            pieces = [render([(s.n, s.l, s.j2, s.electrons) for s in rest], style=config_style,
+                             core=core, order=order)] if rest else []
+            groups = []
+            for parent in self.parents:
+                tokens = [_token(fmt, s.n, s.l, s.j2, s.electrons)
+                          for s in (subs[label] for label in parent.subshells)]
+                groups.append(fmt.separator.join(tokens) + str(parent))
+            # the subshells outside every group come first only when they are a core or
+            # lie below the first group; otherwise after the last group
+            body = fmt.separator.join(_order_pieces(pieces, groups, rest, self.parents))
+        parts.append(body)
+        if self.term is not None:
+            parts.append(" " + (self.seniority or "") + _term_text(self.term, style))
+        if self.uncertain is not None:
+            parts.append(" ?" if self.uncertain == "?" else " (predicted)")
+        return "".join(parts)
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"Level('{self}')"
+
+
+def _order_pieces(pieces: list[str], groups: list[str], rest: list[Any],
+                  parents: Iterable[ParentTerm]) -> list[str]:
+    if not pieces:
+        return groups
+    first_group = next(iter(parents)).subshells
+    first_n = min(int(re.sub(r"\D.*", "", label)) for label in first_group)
+    if all(s.n <= first_n for s in rest):
+        return pieces + groups
+    return groups + pieces
+
+
+def _term_text(term: Term, style: str) -> str:
+    if style == "latex":
+        j = "" if term.J is None else "_{" + _j(term.J) + "}"
+        return f"^{{{term.multiplicity}}}{term.letter}" + ("^{o}" if term.is_odd else "") + j
+    if style == "html":
+        return term.format("html")
+    return term.format("plain")
+
+
+def _j(J: Fraction) -> str:
+    return str(J.numerator) if J.denominator == 1 else f"{J.numerator}/{J.denominator}"
+
+
+# ---------------------------------------------------------------------------- reading
+def _read(text: str, *, accept_uppercase: bool = False
+          ) -> tuple[Level | None, list[ConfspecError], dict[str, Any]]:
+    """Parse and resolve; physics problems of the configuration are collected."""
+    from ._api import _precheck, parse_species
+    from ._grammar import parse_level_raw
+    from ._resolve import resolve
+
+    text = _precheck(text, "level designation")
+    raw = parse_level_raw(text)
+    problems: list[ConfspecError] = []
+    occupancies, errors = resolve(raw.configuration, text, accept_uppercase=accept_uppercase)
+    problems.extend(errors)
+    species = None
+    if raw.label is not None:
+        symbol, position, charge, _ = raw.label
+        try:
+            species = parse_species(symbol + (f"{abs(charge)}{'+' if charge > 0 else '-'}"
+                                              if charge else ""))
+        except ConfspecError as err:
+            problems.append(type(err)(err.code, err.message, position=position, text=text))
+    config = Configuration._trusted(occupancies)
+    items = raw.configuration.items
+    parents = []
+    start = 0
+    for end, token, position in raw.parents:
+        parent_term, parent_j, prefix = read_term_token(token, position, text)
+        labels = []
+        for item in items[start:end]:
+            label = _item_label(item, config)
+            if label is not None and label not in labels:
+                labels.append(label)
+        parents.append((ParentTerm.model_construct(
+            term=parent_term if parent_j is None else _term(
+                parent_term.multiplicity, parent_term.L, parent_term.parity, parent_j),
+            subshells=tuple(labels), seniority=prefix), position))
+        start = end
+    term: Term | None = None
+    J: Fraction | None = None
+    seniority: str | None = None
+    term_at: int | None = None
+    if raw.term is not None:
+        token, term_at = raw.term
+        term, J, seniority = read_term_token(token, term_at, text)
+    uncertain = None
+    if raw.uncertain is not None:
+        uncertain = "?" if raw.uncertain[0] == "?" else "predicted"
+    context = {"text": text, "term_at": term_at, "J": J, "parents": parents}
+    if problems and any(p.code in ("unknown-element", "impossible-charge") for p in problems):
+        return None, problems, context
+    level = Level.model_construct(
+        configuration=config, term=term if J is None else _with_j(term, J), seniority=seniority,
+        parents=tuple(p for p, _ in parents), uncertain=uncertain, species=species)
+    return level, problems, context
+
+
+def _with_j(term: Term | None, J: Fraction) -> Term | None:
+    if term is None:
+        return None
+    return _term(term.multiplicity, term.L, term.parity, J)
+
+
+def _item_label(item: Any, config: Configuration) -> str | None:
+    from ._physics import LETTER_TO_L
+
+    l = LETTER_TO_L.get(item.letter.lower())
+    if l is None:
+        return None
+    j2 = 2 * l + item.j_sign if item.j_sign else item.j2
+    for sub in config.subshells:
+        if sub.n == item.n and sub.l == l and (not j2 or sub.j2 in (0, j2)):
+            return sub.label
+    return f"{item.n}{item.letter.lower()}"  # emptied by a hole: keep the written label
+
+
+def parse_level(text: str, *, accept_uppercase: bool = False) -> Level:
+    """Read a level designation; raise the first problem (see :func:`validate_level`).
+
+    >>> str(parse_level("3d7(4F)4s4p(3P°) z6G°13/2"))
+    '3d7(4F) 4s1 4p1(3P°) z6G°13/2'
+    """
+    level, problems, context = _read(text, accept_uppercase=accept_uppercase)
+    if level is not None and not problems:
+        problems = _consistency(level, context, None)
+    if problems:
+        raise problems[0]
+    assert level is not None
+    return level
+
+
+def validate_level(level: Level | str, species: Species | str | None = None, *,
+                   accept_uppercase: bool = False) -> list[ConfspecError]:
+    """Every problem of a level designation: configuration physics, term-not-allowed,
+    parent-not-allowed, j-not-allowed, parity-mismatch and electron-count.
+
+    >>> [p.code for p in validate_level("2p2 1P")]
+    ['term-not-allowed']
+    >>> [p.code for p in validate_level("3d6(5D)4s 8D")]
+    ['term-not-allowed']
+    >>> validate_level("3d6(5D)4s 6D9/2")
+    []
+    """
+    from ._api import _as_species
+
+    problems: list[ConfspecError] = []
+    kind: Species | None = None
+    if species is not None:
+        try:
+            kind = _as_species(species)
+        except ConfspecError as err:
+            problems.append(err)
+    if isinstance(level, Level):
+        context: dict[str, Any] = {"text": str(level), "term_at": None, "J": level.J,
+                                   "parents": [(p, None) for p in level.parents]}
+        parsed: Level | None = level
+    else:
+        try:
+            parsed, found, context = _read(level, accept_uppercase=accept_uppercase)
+        except ConfspecError as err:
+            return [*problems, err]
+        problems.extend(found)
+        if found:
+            return problems  # the parts cannot be compared with a broken configuration
+    if parsed is None:
+        return problems
+    problems.extend(_consistency(parsed, context, kind))
+    return problems
+
+
+def _consistency(level: Level, context: dict[str, Any], species: Species | None
+                 ) -> list[ConfspecError]:
+    text = context["text"]
+    problems: list[ConfspecError] = []
+    config = level.configuration
+    subs = {s.label: s for s in config.subshells}
+    allowed_final: set[tuple[int, int]] | None = None
+    coupled: set[tuple[int, int]] | None = None  # (2S, L) reachable so far
+    grouped: list[str] = []
+    for parent, position in context["parents"]:
+        group = Configuration._trusted(
+            [(s.n, s.l, s.j2, s.electrons) for s in (subs[label] for label in
+                                                      parent.subshells if label in subs)])
+        grouped.extend(parent.subshells)
+        own = term_keys(group)
+        key = (parent.term.multiplicity - 1, parent.term.L)
+        if key not in own:
+            problems.append(ConfspecPhysicsError(
+                "parent-not-allowed", f"parent term {parent.term.without_j()} is not a term of "
+                f"{group or 'its subconfiguration'}: it has "
+                + ", ".join(_term_names(own, group.parity)),
+                position=position, text=text))
+        elif parent.term.parity != group.parity:
+            problems.append(ConfspecPhysicsError(
+                "parity-mismatch", f"parent term {parent.term} is marked {parent.term.parity}, "
+                f"but {group} has {group.parity} parity", position=position, text=text))
+        coupled = {key} if coupled is None else _couple(coupled, {key})
+    if coupled is not None:
+        rest = Configuration._trusted(
+            [(s.n, s.l, s.j2, s.electrons) for s in config.subshells if s.label not in grouped])
+        allowed_final = _couple(coupled, term_keys(rest))
+    term, J = level.term, context["J"]
+    if term is not None:
+        key = (term.multiplicity - 1, term.L)
+        if allowed_final is None:
+            allowed_final = term_keys(config)
+        if key not in allowed_final:
+            how = ("by coupling its parents with the electrons after them" if level.parents
+                   else "as a term of " + str(config))
+            problems.append(ConfspecPhysicsError(
+                "term-not-allowed", f"{term.without_j()} cannot arise {how}; possible: "
+                + ", ".join(_term_names(allowed_final, config.parity)),
+                position=context["term_at"], text=text))
+        if J is not None and J not in term.without_j().allowed_j():
+            problems.append(ConfspecPhysicsError(
+                "j-not-allowed", f"J = {_j(J)} is outside |L − S| … L + S for "
+                f"{term.without_j()}: " + ", ".join(_j(j) for j in term.without_j().allowed_j()),
+                position=context["term_at"], text=text))
+        if term.parity != config.parity:
+            problems.append(ConfspecPhysicsError(
+                "parity-mismatch", f"{term} is marked {term.parity}, but {config} has "
+                f"{config.parity} parity (the sum of l is "
+                f"{sum(s.l * s.electrons for s in config.subshells)})"
+                + ("; mark odd terms with °" if config.parity == "odd" else ""),
+                position=context["term_at"], text=text))
+    kind = species or level.species
+    if kind is not None and config.electron_count != kind.electron_count \
+            and _implied_core(config, kind.electron_count) is None:
+        problems.append(ConfspecPhysicsError(
+            "electron-count", f"{config} holds {config.electron_count} electrons; {kind} has "
+            f"{kind.electron_count} (Z − charge)", position=None, text=text))
+    return problems
+
+
+def _implied_core(config: Configuration, electrons: int) -> str | None:
+    """The noble-gas core that level tables leave unwritten (``Fe II 3d6(5D)4s``: [Ar]),
+    if adding it makes the electron count right and it overlaps no written subshell."""
+    from ._physics import NOBLE_CORES, NOBLE_GAS_Z
+
+    written = {(s.n, s.l) for s in config.subshells}
+    for symbol, z in NOBLE_GAS_Z.items():
+        if config.electron_count + z == electrons and not written & {
+                (n, l) for n, l, _ in NOBLE_CORES[symbol]}:
+            return symbol
+    return None
+
+
+def _couple(a: set[tuple[int, int]], b: set[tuple[int, int]]) -> set[tuple[int, int]]:
+    """Vector coupling of (2S, L) sets: S and L each run from |x1 − x2| to x1 + x2."""
+    out = set()
+    for s1, l1 in a:
+        for s2, l2 in b:
+            for s in range(abs(s1 - s2), s1 + s2 + 1, 2):
+                for L in range(abs(l1 - l2), l1 + l2 + 1):
+                    out.add((s, L))
+    return out
+
+
+def _term_names(keys: set[tuple[int, int]], parity: Parity) -> list[str]:
+    mark = "°" if parity == "odd" else ""
+    return [f"{s + 1}{_term(s + 1, L, parity, None).letter}{mark}"
+            for s, L in sorted(keys, key=lambda k: (-k[0], -k[1]))]
+
