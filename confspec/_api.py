@@ -14,7 +14,7 @@ from typing import Any
 
 from . import _elements
 from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
-from ._fastpath import fast_configuration
+from ._fastpath import fast_configuration, fast_raw
 from ._models import Configuration, Element, Species
 from ._physics import Occupancy
 from ._resolve import resolve
@@ -81,6 +81,9 @@ def _precheck(text: object, what: str) -> str:
 
 
 def _raw(text: str) -> RawConfiguration:
+    raw = fast_raw(text)
+    if raw is not None:
+        return raw
     from ._grammar import parse_configuration_raw
 
     return parse_configuration_raw(text)

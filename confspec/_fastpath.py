@@ -16,6 +16,7 @@ import re
 
 from ._models import Configuration, Subshell, make_subshell
 from ._physics import NOBLE_CORES, Occupancy
+from ._syntax import RawConfiguration, RawCore, RawItem, _reading_ok
 
 _L = {"s": 0, "p": 1, "d": 2, "f": 3, "g": 4, "h": 5, "i": 6, "k": 7}
 _CAPACITY = {letter: 2 * (2 * l + 1) for letter, l in _L.items()}
@@ -85,3 +86,44 @@ def fast_configuration(text: str) -> Configuration | None:
     if entries[0][0] < 0:
         return None  # an impossible subshell or occupancy: the full path names it
     return Configuration._from_sorted(tuple([sub for _, sub in entries if sub is not None]))
+
+
+def fast_raw(text: str) -> RawConfiguration | None:
+    """The raw parse of ``text`` when it has the fast path's shape, valid or not.
+
+    The resolver then names any problem, exactly as after the grammar (proven by property
+    tests), so a Pauli violation in a common spelling costs no LALR parse.
+    """
+    body = text
+    start = 0
+    core = None
+    if text[:1] == "[":
+        match = _CORE.match(text)
+        if match is None:
+            return None
+        core = RawCore(text[1: text.index("]")], 0, True)
+        start = match.end()
+        body = text[start:]
+    tokens = _TOKEN_TEXT.findall(body)
+    if sum(map(len, tokens)) != len(body) or not (tokens or core):
+        return None
+    items = []
+    at = start
+    for index, token in enumerate(tokens):
+        parts = _TOKEN_PARTS.fullmatch(token)
+        assert parts is not None, token
+        following = tokens[index + 1] if index + 1 < len(tokens) else None
+        if following is not None and parts.group(3) is not None and token[-1:].isdigit() \
+                and not _reading_ok(parts.group(3), following[0], parts.group(2),
+                                    following[1], token.find("^") >= 0):
+            return None  # the grammar weighs other readings of these digits
+        count_group = next((g for g in (3, 4, 5, 6) if parts.group(g) is not None), None)
+        if count_group is None:
+            items.append(RawItem(int(parts.group(1)), parts.group(2), at))
+        else:
+            digits = parts.group(count_group)
+            count = int(digits.translate(_SUPERSCRIPT_DIGITS))
+            items.append(RawItem(int(parts.group(1)), parts.group(2), at, count,
+                                 at + parts.start(count_group)))
+        at += len(token)
+    return RawConfiguration(core, tuple(items))

@@ -100,24 +100,25 @@ def _quads(occupancies: Iterable[tuple[int, ...]]) -> list[tuple[int, int, int, 
 
 
 _CORE_SETS = [(symbol, frozenset(NOBLE_CORES[symbol]),
-               frozenset((n, l) for n, l, _ in NOBLE_CORES[symbol]))
+               frozenset((n, l) for n, l, _ in NOBLE_CORES[symbol]),
+               max(NOBLE_CORES[symbol]))  # the outermost subshell: a quick necessary test
               for symbol in CORES_LARGEST_FIRST]
 
 
 def largest_core(occupancies: Iterable[Occupancy]) -> str | None:
     """The largest noble-gas core whose subshells are all full in the configuration."""
-    have = frozenset(occupancies)
-    for symbol, core, _ in _CORE_SETS:
-        if core <= have:
+    have = set(occupancies)
+    for symbol, core, _, outermost in _CORE_SETS:
+        if outermost in have and core <= have:
             return symbol
     return None
 
 
-_CORE_INSIDE = {symbol: inside for symbol, _, inside in _CORE_SETS}
+_CORE_INSIDE = {symbol: inside for symbol, _, inside, _ in _CORE_SETS}
 
 
-def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, int]], *, style: str = "plain",
-           core: str = "condense", order: str = "shell",
+def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, int]], *,
+           style: str = "plain", core: str = "condense", order: str = "shell",
            changes: Iterable[tuple[int, ...]] = (), core_symbol: str | None = None,
            split_j: bool = False) -> str:
     """Render occupancies, (n, l, electrons) or (n, l, 2j, electrons). ``changes`` are extra

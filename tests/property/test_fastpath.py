@@ -2,11 +2,13 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from hypothesis import example, given
 from hypothesis import strategies as st
 
 from confspec import Configuration, ConfspecError
-from confspec._fastpath import fast_configuration
+from confspec._fastpath import fast_configuration, fast_raw
 from confspec._grammar import parse_configuration_raw
 from confspec._resolve import resolve
 
@@ -69,3 +71,23 @@ def test_fast_path_takes_canonical_text(config: Configuration) -> None:
     _agree(config.format(style="html"))
     _agree(config.format(style="dotted"))
     _agree(config.format(core="expand").replace(" ", ""))
+
+
+def _raw_or_error(read: Callable[[str], object], text: str) -> object:
+    try:
+        return read(text)
+    except ConfspecError as err:
+        return (err.code, err.position)
+
+
+@given(fast_shaped())
+@example("1s22s22p73s2")
+@example("[Ar] 3d11 4s2")
+@example("1s2 2s3 2p7")
+@example("[Ne] 2p6 3s1")
+@example("2d1 3d¹⁰ 4s^{2} 5p<sup>7</sup>")
+def test_fast_raw_equals_the_grammar_raw(text: str) -> None:
+    fast = fast_raw(text)
+    if fast is None:
+        return
+    assert fast == _raw_or_error(parse_configuration_raw, text), text
