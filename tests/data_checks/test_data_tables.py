@@ -180,7 +180,8 @@ def test_memory_rows_say_so():
     # project rule: values transcribed from memory say so in the note column
     for name in ("ground_levels.csv", "ion_ground_levels.csv", "clementi_raimondi.csv"):
         for r in read(name):
-            assert "from memory" in r["note"], (name, r)
+            exact = r["source"].startswith("exact by definition")
+            assert exact or "from memory" in r["note"], (name, r)
 
 
 # ---------------------------------------------------------------- configurations
@@ -441,10 +442,6 @@ def test_clementi_raimondi_rows():
 # so we keep our own recall and flag the row as DOUBTFUL in its note column
 # (nothing is copied from the oracle).
 CLEMENTI_ALLOWED: dict[tuple[str, str], str] = {
-    (
-        "Ge",
-        "3s",
-    ): "recalled 17.760; the oracle is about 0.03 higher; trend along Ga..Kr does not settle it",
     ("Kr", "2p"): "recalled 32.046; the oracle differs by ~0.001",
     ("Kr", "3s"): "recalled 21.028; the oracle differs by ~0.004",
     ("Kr", "3p"): "recalled 20.427; the oracle differs by ~0.006",
