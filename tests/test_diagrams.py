@@ -10,11 +10,12 @@ from html.parser import HTMLParser
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
-from .property.strategies import configurations, relativistic_configurations
 
 from confspec import Configuration, ConfspecError, hund_ground_term, parse
 from confspec._diagrams import box_diagram_html, box_diagram_svg, box_diagram_text
 from confspec._physics import pauli_limit
+
+from .property.strategies import configurations, relativistic_configurations
 
 SVG = "{http://www.w3.org/2000/svg}"
 
