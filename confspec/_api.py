@@ -13,6 +13,7 @@ from functools import lru_cache
 from typing import Any
 
 from . import _elements
+from ._clean import Cleaned, clean, is_missing_marker, remap
 from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ._fastpath import fast_configuration, fast_raw
 from ._models import Configuration, Element, Species
@@ -66,6 +67,10 @@ def _precheck(text: object, what: str) -> str:
             position=None, text=text[:60] + "…")
     if not text.strip(_OUTER_SPACE):
         raise ConfspecSyntaxError("empty", f"the {what} is empty", position=0, text=text)
+    if is_missing_marker(text):
+        raise ConfspecSyntaxError(
+            "empty", f"{text.strip()!r} marks a missing value, not a {what}",
+            position=len(text) - len(text.lstrip()), text=text)
     at = _mojibake_at(text)
     if at is not None:
         fixed = _redecoded(text)
@@ -78,6 +83,22 @@ def _precheck(text: object, what: str) -> str:
         # zero-width characters at the ends: replace them so positions stay put
         text = "".join(" " if ch in _OUTER_SPACE else ch for ch in text)
     return text
+
+
+def _resolved(text: str, *, accept_uppercase: bool, species: Species | None = None
+              ) -> tuple[tuple[tuple[int, ...], ...], list[ConfspecError], Cleaned]:
+    """Clean, read and resolve ``text``; problems point into ``text`` as written."""
+    cleaned = clean(text)
+    work = cleaned.text
+    try:
+        if cleaned.origin is not None:
+            _precheck(work, "configuration")
+        raw = _raw(work)
+        occupancies, errors = resolve(raw, work, accept_uppercase=accept_uppercase,
+                                      reference=_reference(raw, species))
+    except ConfspecError as err:
+        raise remap(err, text, cleaned) from None
+    return occupancies, [remap(e, text, cleaned) for e in errors], cleaned
 
 
 def _raw(text: str) -> RawConfiguration:
@@ -109,7 +130,7 @@ def _parse_cached(text: str, accept_uppercase: bool) -> Configuration:
     if fast is not None:
         return fast
     text = _precheck(text, "configuration")
-    occupancies, errors = resolve(_raw(text), text, accept_uppercase=accept_uppercase)
+    occupancies, errors, _ = _resolved(text, accept_uppercase=accept_uppercase)
     if errors:
         raise errors[0]
     return Configuration._trusted(occupancies)
@@ -136,9 +157,7 @@ def parse(text: str, *, species: Species | str | None = None,
         return _parse_cached(text, accept_uppercase)
     text = _precheck(text, "configuration")
     kind = _as_species(species)
-    raw = _raw(text)
-    occupancies, errors = resolve(raw, text, accept_uppercase=accept_uppercase,
-                                  reference=_reference(raw, kind))
+    occupancies, errors, _ = _resolved(text, accept_uppercase=accept_uppercase, species=kind)
     if errors:
         raise errors[0]
     return Configuration._trusted(occupancies)
@@ -178,6 +197,10 @@ def _raise_if_unknown_element(text: str) -> None:
             raise ConfspecPhysicsError(
                 "unknown-element", f"{candidate!r} is not an element symbol; did you mean "
                 f"{hint!r}?", position=offset, text=text) from None
+    if len(word) == 3 and word[0].isupper() and word[1:].islower():
+        raise ConfspecPhysicsError(  # an IUPAC placeholder symbol such as Uue (Z = 119)
+            "unknown-element", f"{word!r} is not the symbol of an element with Z = 1–118",
+            position=offset, text=text) from None
     if _elements.by_symbol(word[:2]) is None and _elements.by_symbol(word[:1]) is None:
         raise ConfspecPhysicsError("unknown-element", f"{word!r} is not an element symbol",
                                    position=offset, text=text) from None
@@ -190,14 +213,40 @@ def parse_species(text: str) -> Species:
     >>> str(parse_species("Fe(III)")), str(parse_species("Fe III"))
     ('Fe3+', 'Fe2+')
     """
-    text = _precheck(text, "species")
+    original = _precheck(text, "species")
+    cleaned = _named(clean(original, notes=False), original)
+    text = cleaned.text
     from ._grammar import parse_species_raw
 
     try:
-        symbol, position, charge, _ = parse_species_raw(text)
-    except ConfspecSyntaxError:
-        _raise_if_unknown_element(text)
-        raise
+        try:
+            symbol, position, charge, _ = parse_species_raw(text)
+        except ConfspecSyntaxError:
+            _raise_if_unknown_element(text)
+            raise
+        return _species_of(symbol, position, charge, text)
+    except ConfspecError as err:
+        raise remap(err, original, cleaned) from None
+
+
+_NAME_WORD = re.compile(r"[A-Za-z]{3,}")
+
+
+def _named(cleaned: Cleaned, original: str) -> Cleaned:
+    """Replace a leading element name (``iron(III)``, ``Sodium``) by its symbol."""
+    text = cleaned.text
+    match = _NAME_WORD.match(text)
+    row = _elements.by_name(match.group()) if match else None
+    if match is None or row is None:
+        return cleaned
+    origin = cleaned.origin or tuple(range(len(text)))
+    start = origin[0] if origin else 0
+    new_origin = tuple(start + min(i, len(match.group()) - 1) for i in range(len(row.symbol)))
+    return Cleaned(row.symbol + text[match.end():], new_origin + origin[match.end():],
+                   cleaned.note)
+
+
+def _species_of(symbol: str, position: int, charge: int, text: str) -> Species:
     element = _element(symbol, position, text)
     if charge > element.Z or charge < Species.MIN_CHARGE:
         raise ConfspecPhysicsError(
@@ -232,9 +281,8 @@ def validate(text: str, species: Species | str | None = None, *, strict: bool = 
                 and fast_configuration(text) is not None:
             return problems
         text = _precheck(text, "configuration")
-        raw = _raw(text)
-        occupancies, errors = resolve(raw, text, accept_uppercase=accept_uppercase,
-                                      reference=_reference(raw, kind))
+        occupancies, errors, _ = _resolved(text, accept_uppercase=accept_uppercase,
+                                           species=kind)
     except ConfspecError as err:
         return [*problems, err]
     problems.extend(errors)

@@ -55,7 +55,8 @@ _WORDS = {
     "PUNCT": "a separator", "WS": "a space", "$END": "the end of the text",
     "UNDERSCORE": "a separator", "JFRAC": "j such as 1/2", "JMINUS": "'-' (j = l - 1/2)",
     "JUNDER": "'_' before j", "SUB_OPEN": "'<sub>'", "SUB_CLOSE": "'</sub>'",
-    "XRAY": "an X-ray level such as L3", "TERM": "a term such as 5D4",
+    "XRAY": "an X-ray level such as L3", "ROMAN_LOWER": "a Roman numeral",
+    "SUP_DIGITS_SIGN": "a superscript charge", "TERM": "a term such as 5D4",
     "PARENT": "a parent term such as (5D)", "UNCERTAIN": "'?'", "LABEL_SEP": "':' or '='",
 }
 
@@ -284,6 +285,7 @@ class _ToRaw(Transformer[Token, Any]):
     def spectrum_label(self, children: list[Any]) -> tuple[str, int, int, str]:
         element = children[0]
         numeral = next(c for c in children[1:] if isinstance(c, Token) and c.type == "ROMAN")
+
         value = _roman(str(numeral), self._at(numeral), self.text)
         return str(element), self._at(element), value - 1, "spectrum"
 
@@ -343,11 +345,37 @@ class _ToRaw(Transformer[Token, Any]):
         raw = str(children[0])
         digits = "".join(ch for ch in raw if ch not in "⁺⁻").translate(_SUPERSCRIPT_DIGITS)
         signs = [ch for ch in raw if ch in "⁺⁻"]
+        if not signs:  # ⁰: neutral
+            return 0, "charge"
         if digits and len(signs) > 1:
             raise ConfspecSyntaxError("syntax", "a charge has one sign",
                                       position=self._at(children[0]), text=self.text)
         size = int(digits) if digits else len(signs)
         return (-size if signs[0] == "⁻" else size), "charge"
+
+    def charge_number_superscript(self, children: list[Token]) -> tuple[int, str]:
+        signs = str(children[1])
+        if len(signs) != 1 or signs not in "⁺⁻":
+            raise ConfspecSyntaxError("syntax", "write the charge as 3+ or ³⁺",
+                                      position=self._at(children[1]), text=self.text)
+        size = int(str(children[0]))
+        return (size if signs == "⁺" else -size), "charge"
+
+    def charge_superscript_sign(self, children: list[Token]) -> tuple[int, str]:
+        raw = str(children[0])
+        size = int(raw[:-1].translate(_SUPERSCRIPT_DIGITS))
+        return (size if raw[-1] == "+" else -size), "charge"
+
+    def charge_bare_number(self, children: list[Token]) -> tuple[int, str]:
+        if str(children[0]).strip("0"):
+            raise ConfspecSyntaxError(
+                "syntax", f"a charge needs a sign: write {children[0]}+ or {children[0]}-",
+                position=self._at(children[0]) + len(str(children[0])), text=self.text)
+        return 0, "charge"
+
+    def roman(self, children: list[Token]) -> Token:
+        token = children[0]
+        return Token("ROMAN", str(token).upper(), token.start_pos)
 
     def charge_oxidation(self, children: list[Any]) -> tuple[int, str]:
         return children[1], "oxidation"

@@ -37,6 +37,7 @@ from typing import IO, Any, ClassVar, NamedTuple, Protocol, cast
 
 from . import Configuration, ConfspecError, ConfspecPhysicsError, Species, parse, parse_species
 from . import validate as validate_text
+from ._clean import clean
 
 __all__ = [
     "FORMATS",
@@ -260,6 +261,10 @@ class ConfigurationCheck:
                 core_symbol, text, config = filled
                 errors = []
                 fixes.append(f"fill-core:[{core_symbol}]")
+        if config is not None:
+            note = clean(text).note
+            if note is not None:  # a footnote or provenance mark is kept, not dropped
+                fixes.append(f"note:{note}")
         normalized = None if config is None else config.format(
             style=self.style, core=self.core, order=self.order)
         if self.strict and not errors and config is not None:

@@ -115,7 +115,7 @@ def test_strict_flags_valid_but_non_canonical(tmp_path: Path) -> None:
 REACHABLE = [
     pytest.param("", "", "empty", id="empty"),
     pytest.param("1s" * 3000, "", "too-long", id="too-long"),
-    pytest.param("[Ar] 3d6 4s2 ;", "", "syntax", id="syntax"),
+    pytest.param("[Ar] 3d6 % 4s2", "", "syntax", id="syntax"),
     pytest.param("2pâ\x81¶", "", "mojibake", id="mojibake"),
     pytest.param("1S2 2S2", "", "uppercase-subshell", id="uppercase-subshell"),
     pytest.param("2p110s1", "", "ambiguous-run-together", id="ambiguous-run-together"),

@@ -1,0 +1,162 @@
+"""Cell noise around a value, removed before parsing, with every position kept.
+
+Real tables wrap values in quotes or an Excel formula (``="2p6.3s"``), escape superscripts
+as HTML entities (``1s&sup2;``), put the whole value in LaTeX math (``$1s^2 2s^1$``), leave
+zero-width characters, soft hyphens and full-width digits from word processors, use en
+dashes as separators, and append notes and footnote marks (``*``, ``†``, ``(est.)``,
+``(predicted)``, ``[1]``). None of that is notation: it is removed here, and the note is
+returned so a caller can keep it. Every character of the cleaned text remembers where it
+stood in the original, so errors still point into the text the user wrote.
+"""
+
+from __future__ import annotations
+
+import html
+import re
+import unicodedata
+from dataclasses import dataclass
+
+from ._errors import ConfspecError
+
+__all__ = ["Cleaned", "clean", "is_missing_marker", "remap"]
+
+#: Cells that stand for "no value" in exported tables.
+MISSING_MARKERS = frozenset({
+    "nan", "NaN", "NAN", "None", "none", "NONE", "NULL", "null", "Null", "N/A", "n/a", "N/a",
+    "#N/A", "NA", "n.a.", "-", "--", "—", "–", "?", "...", "…", "#VALUE!", "#REF!",
+})
+
+_ZERO_WIDTH = "\u200b\u200c\u200d\u2060\ufeff\u00ad"
+_DASHES = {"–": "-", "—": "-", "‒": "-", "‐": "-", "‑": "-"}
+_QUOTES = [('="', '"'), ('"', '"'), ("'", "'"), ("“", "”"), ("„", "“"), ("‘", "’"), ("«", "»"),
+           ("`", "`")]
+_NOTE = re.compile(r"""(?:
+      \s*[*†‡§¶\#]+                      # footnote marks, attached or spaced
+    | \s*\?                              # a query
+    | \s*\((?:\?|est\.?|estimated|pred\.?|predicted|calc\.?|calculated|theor\.?|theory
+              |ground|ground\ state|approx\.?|tentative|[a-z])\)
+    | \s+\(\d{1,3}\)                     # a numbered note, only after a space: 2p(6) is not
+    | \s*\[(?:\d{1,3}|[a-z]|note\s*\w{1,4}|nb\s*\d{1,3})\]   # reference marks: [1], [a]
+    )+\s*$""", re.IGNORECASE | re.VERBOSE)
+_TRAILING_PUNCT = re.compile(r"\s*[,;.]\s*$")
+_ENTITY = re.compile(r"&(?:#\d{1,6}|#x[0-9a-fA-F]{1,6}|[A-Za-z][A-Za-z0-9]{1,10});")
+_SPACED_SUPERSCRIPT = re.compile(r"(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
+
+
+@dataclass(frozen=True)
+class Cleaned:
+    """The cleaned text, where each of its characters came from, and any note removed."""
+
+    text: str
+    origin: tuple[int, ...] | None  # original index of each character (None: unchanged)
+    note: str | None
+
+    def position(self, at: int | None, original: str) -> int | None:
+        if at is None or self.origin is None:
+            return at
+        if at < len(self.origin):
+            return self.origin[at]
+        return (self.origin[-1] + 1) if self.origin else len(original)
+
+
+def is_missing_marker(text: str) -> bool:
+    return text.strip() in MISSING_MARKERS
+
+
+class _Builder:
+    """Characters with their original positions."""
+
+    def __init__(self, text: str) -> None:
+        self.chars = list(text)
+        self.origin = list(range(len(text)))
+
+    @property
+    def text(self) -> str:
+        return "".join(self.chars)
+
+    def keep(self, start: int, end: int) -> None:
+        self.chars, self.origin = self.chars[start:end], self.origin[start:end]
+
+    def replace(self, pattern: re.Pattern[str], repl: str | None = None,
+                convert: dict[str, str] | None = None) -> None:
+        text = self.text
+        chars: list[str] = []
+        origin: list[int] = []
+        last = 0
+        for match in pattern.finditer(text):
+            chars += self.chars[last:match.start()]
+            origin += self.origin[last:match.start()]
+            new = repl if repl is not None else (convert or {}).get(match.group(), "")
+            if convert is None and repl is None:
+                new = html.unescape(match.group())
+            chars += list(new)
+            origin += [self.origin[match.start()]] * len(new)
+            last = match.end()
+        chars += self.chars[last:]
+        origin += self.origin[last:]
+        self.chars, self.origin = chars, origin
+
+
+def clean(text: str, *, notes: bool = True) -> Cleaned:
+    """Remove cell noise; the result's ``origin`` maps back into ``text``. ``notes=False``
+    keeps trailing marks (a level designation's ``2P*`` and ``?`` are its own)."""
+    simple = text.strip()
+    if not _needs_cleaning(simple):
+        return Cleaned(text, None, None)
+    build = _Builder(text)
+    lead = len(text) - len(text.lstrip())
+    build.keep(lead, lead + len(simple))
+    _unwrap(build)
+    build.replace(_ENTITY)
+    if any(ch in _ZERO_WIDTH for ch in build.chars):
+        build.replace(re.compile(f"[{_ZERO_WIDTH}]"), " ")  # an invisible separator
+    if any("\uff01" <= ch <= "\uff5e" for ch in build.chars):
+        build.replace(re.compile("[\uff01-\uff5e]"), convert={
+            chr(c): unicodedata.normalize("NFKC", chr(c)) for c in range(0xFF01, 0xFF5F)})
+    if any(ch in _DASHES for ch in build.chars):
+        build.replace(re.compile("[–—‒‐‑]"), convert=_DASHES)
+    note = None
+    found = _NOTE.search(build.text) if notes else None
+    if found is not None and found.start() > 0:
+        note = found.group().strip()
+        build.keep(0, found.start())
+    punct = _TRAILING_PUNCT.search(build.text)
+    if punct is not None and punct.start() > 0:
+        build.keep(0, punct.start())
+    build.replace(_SPACED_SUPERSCRIPT, "")
+    _unwrap(build)
+    cleaned = build.text.strip()
+    if cleaned == text:
+        return Cleaned(text, None, note)
+    start = len(build.text) - len(build.text.lstrip())
+    build.keep(start, start + len(cleaned))
+    return Cleaned(build.text, tuple(build.origin), note)
+
+
+def _needs_cleaning(text: str) -> bool:
+    return bool(text) and (
+        text[0] in "=\"'“„‘«`$" or "&" in text or "–" in text or "—" in text or "‒" in text
+        or any(ch in _ZERO_WIDTH for ch in text) or any("\uff01" <= ch <= "\uff5e" for ch in text)
+        or text[-1] in "*†‡§¶#?),;.]" or _SPACED_SUPERSCRIPT.search(text) is not None)
+
+
+def _unwrap(build: _Builder) -> None:
+    """Drop an Excel ``="…"`` wrapper, surrounding quotes, or ``$…$`` around the value."""
+    for _ in range(3):
+        text = build.text
+        for opening, closing in [*_QUOTES, ("$", "$")]:
+            if len(text) > len(opening) + len(closing) and text.startswith(opening) \
+                    and text.endswith(closing) and (
+                        opening != "$" or text.count("$") == 2):
+                build.keep(len(opening), len(text) - len(closing))
+                break
+        else:
+            return
+
+
+def remap(err: ConfspecError, original: str, cleaned: Cleaned) -> ConfspecError:
+    """The same error, pointing into the text as the user wrote it."""
+    if cleaned.origin is None or err.text is None:
+        return err
+    return type(err)(err.code, err.message, position=cleaned.position(err.position, original),
+                     text=original)
