@@ -17,47 +17,26 @@ from typing import Any
 
 from pydantic import BaseModel, ConfigDict, Field
 
-from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
+from ._errors import ConfspecError, ConfspecPhysicsError
 from ._models import Configuration, Species
 from ._physics import Parity
-from ._terms import TERM_LETTERS, Term, _term, term_keys
+from ._terms import Term, _term, read_term, term_keys
 
 __all__ = ["Level", "ParentTerm", "parse_level", "validate_level"]
-
-_SUP = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
-_SUB = str.maketrans("₀₁₂₃₄₅₆₇₈₉", "0123456789")
-
-# The parts of one TERM or PARENT token of the grammar (the token's extent is the grammar's
-# business; a property test checks this pattern reads every token the grammar produces).
-_TERM_PARTS = re.compile(r"""
-    \(?(?P<prefix>[a-z])?
-    (?:\^\{(?P<m1>[0-9]+)\}|\^(?P<m2>[0-9]+)|<sup>(?P<m3>[0-9]+)</sup>|(?P<m4>[0-9]+)
-       |(?P<m5>[⁰¹²³⁴⁵⁶⁷⁸⁹]+))
-    (?:(?P<letter>[SPDFGHIKLMNOQRTUV])|\[(?P<lnum>[0-9]+)\])
-    (?P<odd>°|º|ᵒ|\^\{?(?:o|°|\*|\\circ)\}?|<sup>(?:o|°|\*)</sup>|o|\*)?
-    (?:_\{(?P<j1>[0-9]+(?:/2)?)\}|_(?P<j2>[0-9]+(?:/2)?)|<sub>(?P<j3>[0-9]+(?:/2)?)</sub>
-       |<(?P<j4>[0-9]+(?:/2)?)>|(?P<j5>[0-9]+(?:/2)?)|(?P<j6>[₀₁₂₃₄₅₆₇₈₉]+(?:/₂)?))?
-    \)?""", re.VERBOSE)
 
 
 def read_term_token(token: str, position: int, text: str
                     ) -> tuple[Term, Fraction | None, str | None]:
-    """(term without J, J, seniority letter) of one term token; J is checked later."""
-    match = _TERM_PARTS.fullmatch(token)
-    if match is None:  # pragma: no cover - the grammar only hands over term-shaped tokens
-        raise ConfspecSyntaxError("term-syntax", f"{token!r} is not a term", position=position,
-                                  text=text)
-    parts = match.groupdict()
-    mult_text = next(parts[k] for k in ("m1", "m2", "m3", "m4", "m5") if parts[k])
-    multiplicity = int(mult_text.translate(_SUP))
-    if multiplicity < 1:
-        raise ConfspecPhysicsError("invalid-term", "the multiplicity 2S+1 is at least 1",
-                                   position=position, text=text)
-    L = TERM_LETTERS.index(parts["letter"]) if parts["letter"] else int(parts["lnum"])
-    parity: Parity = "odd" if parts["odd"] else "even"
-    j_text = next((parts[k] for k in ("j1", "j2", "j3", "j4", "j5", "j6") if parts[k]), None)
-    J = None if j_text is None else Fraction(j_text.translate(_SUB).replace("₂", "2"))
-    return _term(multiplicity, L, parity, None), J, parts["prefix"]
+    """(term without J, J, ordering letter) of one TERM or PARENT token of the grammar,
+    read by the one term reader; J is checked later, with its own code."""
+    inner = token[1:-1] if token.startswith("(") and token.endswith(")") else token
+    offset = position + (1 if inner is not token else 0)
+    padded = " " * offset + inner
+    try:
+        term, J, prefix, _ = read_term(padded, offset)
+    except ConfspecError as err:
+        raise type(err)(err.code, err.message, position=err.position, text=text) from None
+    return term, J, prefix
 
 
 class ParentTerm(BaseModel):

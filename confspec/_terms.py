@@ -232,7 +232,7 @@ class _Scanner:
 
 
 _ODD_MARKS = ("^{\\circ}", "^\\circ", "^{o}", "^{°}", "^{*}", "<sup>o</sup>", "<sup>°</sup>",
-              "<sup>*</sup>", "^o", "^°", "^*", "°", "º", "ᵒ", "o", "*")
+              "<sup>*</sup>", "^o", "^°", "^*", "°", "º", "ᵒ", "⁰", "o", "*")
 
 
 def _multiplicity(scan: _Scanner) -> int:
@@ -267,6 +267,9 @@ def _orbital(scan: _Scanner) -> int:
         if not scan.take("}"):
             raise scan.fail("expected '}' after the term letter")
         return L
+    if scan.rest().startswith("[") and "/" in scan.rest().split("]")[0]:
+        raise scan.fail("a jK-coupling term such as 2[3/2]° is not an LS term; confspec "
+                        "reads LS terms (2S+1 L J)", at=start)
     if scan.take("["):
         value = scan.digits()
         if not value or not scan.take("]"):
@@ -288,11 +291,15 @@ def _orbital(scan: _Scanner) -> int:
 
 def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
     start = scan.pos
+    if scan.rest()[:1] == " " and (scan.rest()[1:2].isdigit() or scan.rest()[1:2] in "½<"):
+        scan.pos += 1  # Term and J columns pasted into one cell: '5D 4'
     close = ""
     if scan.take("_{"):
         close = "}"
     elif scan.take("<sub>"):
         close = "</sub>"
+    elif scan.take("<"):
+        close = ">"  # NIST's ASCII output writes J in angle brackets: 5D<4>
     elif scan.take("_"):
         pass
     if scan.rest()[:1] and scan.rest()[:1] in _SUBSCRIPT_DIGITS:
@@ -300,57 +307,103 @@ def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
     else:
         alphabet = "0123456789"
     number_at = scan.pos
-    top = scan.digits(alphabet)
-    if not top:
-        if scan.pos != start:
-            raise scan.fail("expected J after '_'")
-        return None
-    bottom = "1"
-    if scan.take("/", "⁄"):
-        bottom = scan.digits(alphabet) or scan.digits()
-        if not bottom:
-            raise scan.fail("expected the denominator of J, as in 3/2")
+    if scan.take("½"):
+        value = Fraction(1, 2)
+    else:
+        top = scan.digits(alphabet)
+        if not top:
+            if scan.pos != start:
+                raise scan.fail("expected J after '_'")
+            return None
+        bottom = "1"
+        if scan.take("/", "⁄"):
+            bottom = scan.digits(alphabet) or scan.digits()
+            if not bottom:
+                raise scan.fail("expected the denominator of J, as in 3/2")
+        elif scan.rest()[:2] in (".5", ".0") and not scan.rest()[2:3].isdigit():
+            bottom = "2" if scan.take(".5") else "1"  # a decimal J: 4.5 is 9/2
+            if bottom == "1":
+                scan.take(".0")
+            top = str(2 * int(top) + 1) if bottom == "2" else top
+        if int(bottom) == 0:
+            raise ConfspecPhysicsError("invalid-term", "J has a zero denominator",
+                                       position=number_at, text=scan.text)
+        value = Fraction(int(top), int(bottom))
     if close and not scan.take(close):
         raise scan.fail(f"expected {close!r} after J")
-    if int(bottom) == 0:
-        raise ConfspecPhysicsError("invalid-term", "J has a zero denominator",
-                                   position=number_at, text=scan.text)
-    return Fraction(int(top), int(bottom)), number_at
+    return value, number_at
+
+
+def read_term(text: str, start: int = 0, end: int | None = None
+              ) -> tuple[Term, Fraction | None, str | None, int | None]:
+    """(term without J, J, ordering letter, position of J) of ``text[start:end]``.
+
+    J is returned unchecked, so that a level check can name an impossible J with its own
+    code. One reader for every term confspec reads: standalone, in a level designation, and
+    in a table's term column.
+    """
+    scan = _Scanner(text, start, len(text) if end is None else end)
+    prefix = None
+    rest = scan.rest()
+    if len(rest) > 2 and rest[0] in "abcdefghijklmnopqrstuvwxyz" and (
+            rest[1].isdigit() or rest[1] in _SUPERSCRIPT_DIGITS or rest[1] in "^<"
+            or (rest[1] == " " and (rest[2].isdigit() or rest[2] in _SUPERSCRIPT_DIGITS))):
+        prefix = rest[0]  # NIST ordering letter: a5D, z 7P°
+        scan.pos += 2 if rest[1] == " " else 1
+    multiplicity = _multiplicity(scan)
+    L = _orbital(scan)
+    odd = scan.take(*_ODD_MARKS) is not None
+    found = _j(scan)
+    if not odd and found is not None:
+        odd = scan.take(*_ODD_MARKS) is not None  # parity written after J: 2P1/2°
+    if scan.pos != scan.end:
+        raise scan.fail(f"unexpected {scan.text[scan.pos]!r} after the term; expected "
+                        "a parity mark (°, o, *) or J")
+    J, j_at = found if found is not None else (None, None)
+    parity: Parity = "odd" if odd else "even"
+    return _term(multiplicity, L, parity, None), J, prefix, j_at
 
 
 def parse_term(text: str) -> Term:
     """Read a term symbol: ``5D4``, ``2P°1/2``, ``^{2}P^{o}_{1/2}``, ``2Po1/2``, ``2P*1/2``,
-    ``²P°₁/₂``, ``<sup>2</sup>P<sup>o</sup><sub>1/2</sub>``, or without J (``3P``).
+    ``²P°₁/₂``, ``<sup>2</sup>P<sup>o</sup><sub>1/2</sub>``, ``5D<4>``, ``5D 4``, ``$^5D_4$``,
+    ``4F4.5``, or without J (``3P``). A NIST ordering letter (``a 5D``, ``z7P°``) is read
+    and dropped: it orders levels, it is not part of the term.
 
     Odd parity may be marked ``°``, ``o``, ``*`` (also as a superscript); no mark means
     even. Errors are :class:`~confspec.ConfspecError` with code ``term-syntax`` (the
     notation) or ``invalid-term`` (J impossible for L and S).
 
-    >>> str(parse_term("^{2}P^{o}_{1/2}")), str(parse_term("2P*1/2"))
-    ('2P°1/2', '2P°1/2')
+    >>> str(parse_term("^{2}P^{o}_{1/2}")), str(parse_term("2P*1/2")), str(parse_term("a 5D 4"))
+    ('2P°1/2', '2P°1/2', '5D4')
     """
     if not isinstance(text, str):
         raise TypeError(f"a term must be a str, not {type(text).__name__}")
     if len(text) > _MAX_TERM_TEXT:
         raise ConfspecSyntaxError("too-long", f"{len(text)} characters is too long for a term",
                                   text=text[:60] + "…")
-    stripped = text.strip()
+    from ._clean import Cleaned, clean, remap
+
+    cleaned = clean(text, notes=False)
+    work = cleaned.text
+    if "$" in work:  # LaTeX math around the whole term or its parts: $^5$D$_4$
+        keep = [i for i, ch in enumerate(work) if ch != "$"]
+        origin = cleaned.origin or tuple(range(len(work)))
+        cleaned = Cleaned("".join(work[i] for i in keep), tuple(origin[i] for i in keep),
+                          cleaned.note)
+        work = cleaned.text
+    stripped = work.strip()
     if not stripped:
         raise ConfspecSyntaxError("empty", "the term is empty", position=0, text=text)
-    start = len(text) - len(text.lstrip())
-    scan = _Scanner(text, start, start + len(stripped))
-    multiplicity = _multiplicity(scan)
-    L = _orbital(scan)
-    parity: Parity = "odd" if scan.take(*_ODD_MARKS) else "even"
-    found = _j(scan)
-    if scan.pos != scan.end:
-        raise scan.fail(f"unexpected {scan.text[scan.pos]!r} after the term; expected "
-                        "a parity mark (°, o, *) or J")
-    J, j_at = found if found is not None else (None, None)
-    problem = _j_problem(multiplicity, L, J)
-    if problem is not None:
-        raise ConfspecPhysicsError("invalid-term", problem, position=j_at, text=text)
-    return _term(multiplicity, L, parity, J)
+    start = len(work) - len(work.lstrip())
+    try:
+        term, J, _, j_at = read_term(work, start, start + len(stripped))
+        problem = _j_problem(term.multiplicity, term.L, J)
+        if problem is not None:
+            raise ConfspecPhysicsError("invalid-term", problem, position=j_at, text=work)
+    except ConfspecError as err:
+        raise remap(err, text, cleaned) from None
+    return term if J is None else _term(term.multiplicity, term.L, term.parity, J)
 
 
 def _as_term(term: Term | str) -> Term:
