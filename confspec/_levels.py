@@ -197,7 +197,8 @@ def _read(text: str, *, accept_uppercase: bool = False
     uncertain = None
     if raw.uncertain is not None:
         uncertain = "?" if raw.uncertain[0] == "?" else "predicted"
-    context = {"text": text, "term_at": term_at, "J": J, "parents": parents}
+    context = {"text": text, "term_at": term_at, "J": J, "parents": parents,
+               "core_written": raw.configuration.core is not None}
     if problems and any(p.code in ("unknown-element", "impossible-charge") for p in problems):
         return None, problems, context
     level = Level.model_construct(
@@ -335,25 +336,21 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
                 + ("; mark odd terms with °" if config.parity == "odd" else ""),
                 position=context["term_at"], text=text))
     kind = species or level.species
-    if kind is not None and config.electron_count != kind.electron_count \
-            and _implied_core(config, kind.electron_count) is None:
+    if kind is not None and config.electron_count != kind.electron_count and (
+            context.get("core_written") or _implied_core(config, kind.electron_count) is None):
         problems.append(ConfspecPhysicsError(
             "electron-count", f"{config} holds {config.electron_count} electrons; {kind} has "
             f"{kind.electron_count} (Z − charge)", position=None, text=text))
     return problems
 
 
-def _implied_core(config: Configuration, electrons: int) -> str | None:
-    """The noble-gas core that level tables leave unwritten (``Fe II 3d6(5D)4s``: [Ar]),
-    if adding it makes the electron count right and it overlaps no written subshell."""
-    from ._physics import NOBLE_CORES, NOBLE_GAS_Z
+def _implied_core(config: Configuration, electrons: int) -> tuple[tuple[int, int, int], ...] | None:
+    """The closed inner subshells that level tables leave unwritten (``Fe II 3d6(5D)4s``:
+    [Ar]; ``Na I 2p6.3s``: 1s2 2s2), if they make the electron count right."""
+    from ._physics import implied_inner_subshells
 
     written = {(s.n, s.l) for s in config.subshells}
-    for symbol, z in NOBLE_GAS_Z.items():
-        if config.electron_count + z == electrons and not written & {
-                (n, l) for n, l, _ in NOBLE_CORES[symbol]}:
-            return symbol
-    return None
+    return implied_inner_subshells(written, electrons - config.electron_count)
 
 
 def _couple(a: set[tuple[int, int]], b: set[tuple[int, int]]) -> set[tuple[int, int]]:

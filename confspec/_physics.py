@@ -74,3 +74,33 @@ NOBLE_CORES: dict[str, tuple[Occupancy, ...]] = {
 
 #: Cores from the largest down, for condensing.
 CORES_LARGEST_FIRST = sorted(NOBLE_CORES, key=lambda s: -NOBLE_GAS_Z[s])
+
+
+def implied_inner_subshells(written: set[tuple[int, int]], missing: int
+                            ) -> tuple[Occupancy, ...] | None:
+    """The closed inner subshells that level tables leave unwritten (``2p6.3s`` for Na is
+    1s2 2s2 short), or None when no such filling gives exactly ``missing`` electrons.
+
+    Subshells not written are filled completely in Madelung order; each must lie below the
+    highest written subshell in shell order (so ``3d6`` never implies an outer 4s2).
+    """
+    if missing == 0:
+        return ()
+    if missing < 0 or not written:
+        return None
+    top = max(written)
+    added: list[Occupancy] = []
+    left = missing
+    for n, l in madelung_sequence():
+        if (n, l) in written:
+            continue
+        if (n, l) >= top:
+            return None
+        full = pauli_limit(l)
+        if full > left:
+            return None
+        added.append((n, l, full))
+        left -= full
+        if left == 0:
+            return tuple(sorted(added))
+    return None  # pragma: no cover - the sequence is endless

@@ -38,6 +38,7 @@ from typing import IO, Any, ClassVar, NamedTuple, Protocol, cast
 from . import Configuration, ConfspecError, ConfspecPhysicsError, Species, parse, parse_species
 from . import validate as validate_text
 from ._clean import clean
+from ._physics import implied_inner_subshells, subshell_label
 
 __all__ = [
     "FORMATS",
@@ -258,9 +259,9 @@ class ConfigurationCheck:
                 and [e.code for e in errors] == ["electron-count"]):
             filled = self._fill_core(text, config, species, upper)
             if filled is not None:
-                core_symbol, text, config = filled
+                added, text, config = filled
                 errors = []
-                fixes.append(f"fill-core:[{core_symbol}]")
+                fixes.append(f"fill-core:{added}")
         if config is not None:
             note = clean(text).note
             if note is not None:  # a footnote or provenance mark is kept, not dropped
@@ -315,7 +316,13 @@ class ConfigurationCheck:
             candidate = f"[{symbol}] {text.strip()}"
             filled, errors = self._read(candidate, species, upper)
             if filled is not None and not errors:
-                return symbol, candidate, filled
+                return f"[{symbol}]", candidate, filled
+        # level tables also leave out closed subshells below the written ones: Na 2p6.3s
+        inner = implied_inner_subshells(written, deficit)
+        if inner:
+            config = Configuration._trusted([*inner, *config.occupancies])
+            return " ".join(f"{subshell_label(n, l)}{e}" for n, l, e in inner), str(
+                config), config
         return None
 
 

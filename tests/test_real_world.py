@@ -719,15 +719,15 @@ def test_level_is_refused(text: str, code: str) -> None:
     case("4f14.6s2 1S0", "Yb", [], id="Yb"),
     case("3d6 4s2 5D4", "Co", ["electron-count"], id="wrong-species"),
     case("[Xe] 6s2 6p2 3P0", "Pb", ["electron-count"], id="core-written-4f-5d-dropped"),
-    case("2p6.3s 2S1/2", "Na", [], id="Na-2p6-3s", gap=CLOSED_OMITTED),
-    case("2p5.3s 3P°2", "Ne", [], id="Ne-2p5-3s", gap=CLOSED_OMITTED),
-    case("2p6 1S0", "Ne", [], id="Ne-ground-2p6", gap=CLOSED_OMITTED),
-    case("3p5.4s 3P°2", "Ar", [], id="Ar-3p5-4s", gap=CLOSED_OMITTED),
-    case("6s2.6p2 3P0", "Pb", [], id="Pb-6s2-6p2", gap=CLOSED_OMITTED),
-    case("6s2.6p3 4S°3/2", "Bi", [], id="Bi-6s2-6p3", gap=CLOSED_OMITTED),
-    case("5d10.6s2 1S0", "Hg", [], id="Hg-5d10-6s2", gap=CLOSED_OMITTED),
-    case("5d10.6s 2S1/2", "Au", [], id="Au-5d10-6s", gap=CLOSED_OMITTED),
-    case("Ne I 2p5.3s 3P°2", None, [], id="Ne-label", gap=CLOSED_OMITTED),
+    case("2p6.3s 2S1/2", "Na", [], id="Na-2p6-3s"),
+    case("2p5.3s 3P°2", "Ne", [], id="Ne-2p5-3s"),
+    case("2p6 1S0", "Ne", [], id="Ne-ground-2p6"),
+    case("3p5.4s 3P°2", "Ar", [], id="Ar-3p5-4s"),
+    case("6s2.6p2 3P0", "Pb", [], id="Pb-6s2-6p2"),
+    case("6s2.6p3 4S°3/2", "Bi", [], id="Bi-6s2-6p3"),
+    case("5d10.6s2 1S0", "Hg", [], id="Hg-5d10-6s2"),
+    case("5d10.6s 2S1/2", "Au", [], id="Au-5d10-6s"),
+    case("Ne I 2p5.3s 3P°2", None, [], id="Ne-label"),
 ])
 def test_level_against_its_species(text: str, species: str | None, codes: list[str]) -> None:
     assert [p.code for p in confspec.validate_level(text, species=species)] == codes
@@ -826,7 +826,7 @@ CLI_TERM_ROWS = [
     ("", "2p", "2P", "1/2", "error", "parity-mismatch", None),
     ("Fe", "3d6.4s2", "a 5D", "4", "ok", "", None),
     ("Fe+", "3d6(5D)4s", "a 6D", "9/2", "ok", "", None),
-    ("Na", "2p6.3p", "2P*", "3/2", "ok", "", CLOSED_OMITTED),
+    ("Na", "2p6.3p", "2P*", "3/2", "ok", "", None),
     ("Ne", "2p5(2P*3/2)3s", "2[3/2]*", "2", "ok", "", JK + "; and " + CLOSED_OMITTED),
     ("Fe", "3d6 4s2", "5D", "4.0", "ok", "", None),
 ]
@@ -894,11 +894,11 @@ def test_cli_bad_term_cell_is_named_and_located(cli_bad_term_report: list[dict[s
 CLI_FILL_ROWS = [
     ("Fe", "3d6 4s2", "[Ar] 3d6 4s2", None),
     ("Cu", "3d10 4s1", "[Ar] 3d10 4s1", None),
-    ("Na", "2p6 3s1", "[Ne] 3s1", CLOSED_OMITTED),
-    ("Ne", "2p5 3s1", "[He] 2s2 2p5 3s1", CLOSED_OMITTED),
-    ("Pb", "6s2 6p2", "[Xe] 4f14 5d10 6s2 6p2", CLOSED_OMITTED),
-    ("Hg", "5d10 6s2", "[Xe] 4f14 5d10 6s2", CLOSED_OMITTED),
-    ("Au", "5d10.6s", "[Xe] 4f14 5d10 6s1", CLOSED_OMITTED),
+    ("Na", "2p6 3s1", "[Ne] 3s1", None),
+    ("Ne", "2p5 3s1", "[He] 2s2 2p5 3s1", None),
+    ("Pb", "6s2 6p2", "[Xe] 4f14 5d10 6s2 6p2", None),
+    ("Hg", "5d10 6s2", "[Xe] 4f14 5d10 6s2", None),
+    ("Au", "5d10.6s", "[Xe] 4f14 5d10 6s1", None),
 ]
 
 
