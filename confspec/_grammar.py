@@ -257,10 +257,36 @@ class _ToRaw(Transformer[Token, Any]):
         return RawLevel(label, body.configuration, body.parents, body.term, body.uncertain)
 
     def level_bare_core(self, children: list[Any]) -> RawLevel:
+        """``Ne 2p5 3s`` (a bracketless noble-gas core) or ``Na 3s 2S1/2`` (a species
+        written before its configuration without a colon): a noble-gas symbol is a core,
+        unless the configuration lies inside that core; any other symbol names the species."""
+        from ._physics import LETTER_TO_L, NOBLE_CORES
+
         token, body = children[0], children[-1]
-        core = RawCore(str(token), self._at(token), False)
-        return RawLevel(None, RawConfiguration(core, body.configuration.items), body.parents,
-                        body.term, body.uncertain)
+        symbol = str(token)
+        inside = {(n, l) for n, l, _ in NOBLE_CORES.get(symbol, ())}
+        written = {(i.n, LETTER_TO_L.get(i.letter.lower(), -1)) for i in body.configuration.items}
+        if symbol in NOBLE_CORES and not (written & inside):
+            core = RawCore(symbol, self._at(token), False)
+            return RawLevel(None, RawConfiguration(core, body.configuration.items),
+                            body.parents, body.term, body.uncertain)
+        return RawLevel((symbol, self._at(token), 0, "none"), body.configuration,
+                        body.parents, body.term, body.uncertain)
+
+    def level_symbol_core(self, children: list[Any]) -> RawLevel:
+        """``Cu [Ar] 3d10 4s1``: a species symbol, then a bracketed core."""
+        token = children[0]
+        core_token = next(c for c in children if isinstance(c, Token) and c.type == "CORE")
+        body = children[-1] if isinstance(children[-1], RawLevel) else None
+        tail = children[-1] if isinstance(children[-1], _Tail) else None
+        inner = re.sub(r"\\(?:mathrm|text|rm|mathit)\s*\{([^{}]*)\}", r"\1",
+                       str(core_token)[1:-1]).strip()
+        core = RawCore(inner, self._at(core_token), True)
+        items = body.configuration.items if body is not None else ()
+        end: RawLevel | _Tail | None = body or tail
+        return RawLevel((str(token), self._at(token), 0, "none"), RawConfiguration(core, items),
+                        body.parents if body else (), end.term if end else None,
+                        end.uncertain if end else None)
 
     def level_body(self, children: list[Any]) -> RawLevel:
         core_token = children[0] if isinstance(children[0], Token) else None

@@ -296,17 +296,28 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
         grouped.extend(parent.subshells)
         own = term_keys(group)
         key = (parent.term.multiplicity - 1, parent.term.L)
-        if key not in own:
+        so_far = own if coupled is None else _couple(coupled, own)
+        cumulative = coupled is not None and key not in own and key in so_far
+        if key not in own and not cumulative:
             problems.append(ConfspecPhysicsError(
                 "parent-not-allowed", f"parent term {parent.term.without_j()} is not a term of "
-                f"{group or 'its subconfiguration'}: it has "
-                + ", ".join(_term_names(own, group.parity)),
+                f"{group or 'its subconfiguration'} ("
+                + ", ".join(_term_names(own, group.parity)) + ")"
+                + ("" if coupled is None else ", nor a coupled term of everything to its left ("
+                   + ", ".join(_term_names(so_far, group.parity)) + ")"),
                 position=position, text=text))
-        elif parent.term.parity != group.parity:
-            problems.append(ConfspecPhysicsError(
-                "parity-mismatch", f"parent term {parent.term} is marked {parent.term.parity}, "
-                f"but {group} has {group.parity} parity", position=position, text=text))
-        coupled = {key} if coupled is None else _couple(coupled, {key})
+        else:
+            left = Configuration._trusted([(s.n, s.l, s.j2, s.electrons) for s in (
+                subs[label] for label in grouped if label in subs)])
+            parity = left.parity if cumulative else group.parity
+            if parent.term.parity != parity:
+                problems.append(ConfspecPhysicsError(
+                    "parity-mismatch", f"parent term {parent.term} is marked "
+                    f"{parent.term.parity}, but {left if cumulative else group} has {parity} "
+                    "parity", position=position, text=text))
+        # a parent after the first either closes its own group (3d7(4F)4s4p(3P°): 3P° of
+        # 4s4p, coupled next) or names the coupled term of all before it (3d6(5D)4s(6D))
+        coupled = {key} if coupled is None or cumulative else _couple(coupled, {key})
     if coupled is not None:
         rest = Configuration._trusted(
             [(s.n, s.l, s.j2, s.electrons) for s in config.subshells if s.label not in grouped])

@@ -35,7 +35,15 @@ from pathlib import Path
 from re import compile as re_compile
 from typing import IO, Any, ClassVar, NamedTuple, Protocol, cast
 
-from . import Configuration, ConfspecError, ConfspecPhysicsError, Species, parse, parse_species
+from . import (
+    Configuration,
+    ConfspecError,
+    ConfspecPhysicsError,
+    ConfspecSyntaxError,
+    Species,
+    parse,
+    parse_species,
+)
 from . import validate as validate_text
 from ._clean import clean
 from ._physics import implied_inner_subshells, subshell_label
@@ -327,6 +335,7 @@ class ConfigurationCheck:
 
 
 _J_DECIMAL = re_compile(r"^\s*(\d+)\.5\s*$")
+_J_WHOLE = re_compile(r"^\s*(\d+)\.0*\s*$")
 
 
 def _j_text(cell: str) -> str:
@@ -334,6 +343,9 @@ def _j_text(cell: str) -> str:
     decimal = _J_DECIMAL.match(cell)
     if decimal:
         return f"{2 * int(decimal.group(1)) + 1}/2"
+    whole = _J_WHOLE.match(cell)
+    if whole:  # a float column: 4.0
+        return whole.group(1)
     return cell.strip()
 
 
@@ -368,17 +380,23 @@ class LevelCheck:
             return Outcome.make(validate_text(text or ""))
         species = species.strip() if species is not None and species.strip() else None
         level_text = text
+        config_text = text.strip()
         if term is not None and term.strip():
-            term_text = term.strip()
-            if j is not None and j.strip() and not _has_j(term_text):
-                term_text += _j_text(j)
-            level_text = f"{text.strip()} {term_text}"
+            term_text = _term_cell(term, j)
+            if isinstance(term_text, ConfspecError):
+                return Outcome.make([term_text])
+            level_text = f"{config_text} {term_text}"
         elif j is not None and j.strip():
             problem = ConfspecPhysicsError(
                 "j-not-allowed", f"J {j.strip()!r} is given without a term to check it against",
                 position=None, text=text)
             return Outcome.make([problem])
         problems = validate_level(level_text, species, accept_uppercase=self.accept_uppercase)
+        if problems and level_text != text:
+            # problems of the joined term point at the term cell, not past the configuration
+            problems = [p if p.position is None or p.position <= len(config_text) else
+                        type(p)(p.code, f"term {level_text[len(config_text) + 1:]!r}: "
+                                f"{p.message}", position=None, text=text) for p in problems]
         if problems:
             return Outcome.make(problems, checked=level_text if level_text != text else None)
         level = parse_level(level_text, accept_uppercase=self.accept_uppercase)
@@ -394,6 +412,32 @@ class LevelCheck:
                 position=None, text=text))
         return Outcome.make(errors, normalized, (), level_text if level_text != text else None,
                             level.configuration.electron_count)
+
+
+def _term_cell(term: str, j: str | None) -> str | ConfspecError:
+    """The term cell (and J cell) read on their own, written back as one term token, or
+    the problem located in the cell it came from."""
+    from ._terms import read_term
+
+    cell = term.strip()
+    try:
+        parsed, j_in_term, prefix, _ = read_term(cell)
+    except ConfspecError as err:
+        code = "term-syntax" if err.code == "syntax" else err.code
+        return type(err)(code, f"term column: {err.message}", position=err.position, text=cell)
+    if j is not None and j.strip() and j_in_term is None:
+        j_text = _j_text(j)
+        if not _J_TEXT.fullmatch(j_text):
+            return ConfspecSyntaxError(
+                "term-syntax", f"J column: {j.strip()!r} is not a J such as 4, 9/2 or 4.5",
+                position=0, text=j.strip())
+    else:
+        j_text = "" if j_in_term is None else (
+            str(j_in_term) if j_in_term.denominator == 1 else f"{j_in_term.numerator}/2")
+    return f"{prefix or ''}{parsed}{j_text}"
+
+
+_J_TEXT = re_compile(r"\d+(?:/2)?")
 
 
 def _has_j(term_text: str) -> bool:

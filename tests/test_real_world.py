@@ -645,14 +645,12 @@ LEVEL_READ = [
     case("3p5.4s 2[3/2]° 1", "3p5 4s1", "2[3/2]°1", None, id="jK-Ar-spaced", gap=JK),
     case("2p5(2P*<3/2>)3s", "2p5 3s1", None, None, id="jK-parent-angle-J", gap=ANGLE_PARENT),
     # Parents: cumulative coupling after one electron (NIST ASD Fe I e 7D; from memory)
-    case("3d6(5D)4s(6D)5s e7D5", "3d6 4s1 5s1", "7D5", None, id="cumulative-parent",
-         gap=CUMULATIVE_PARENT),
+    case("3d6(5D)4s(6D)5s e7D5", "3d6 4s1 5s1", "7D5", None, id="cumulative-parent"),
     case("3d6(⁵D)4s a⁶D₉/₂", "3d6 4s1", "6D9/2", None, id="unicode-parent",
          gap=UNICODE_PARENT),
     # Labels and separators from papers and Q&A answers (common practice, no source)
-    case("Cu [Ar] 3d10 4s1", "[Ar] 3d10 4s1", None, "Cu", id="label-no-colon-core",
-         gap=LABEL_NO_COLON),
-    case("Na 3s 2S1/2", "3s1", "2S1/2", "Na", id="label-no-colon", gap=LABEL_NO_COLON),
+    case("Cu [Ar] 3d10 4s1", "[Ar] 3d10 4s1", None, "Cu", id="label-no-colon-core"),
+    case("Na 3s 2S1/2", "3s1", "2S1/2", "Na", id="label-no-colon"),
     case("Fe 2+: [Ar] 3d6", "[Ar] 3d6", None, "Fe2+", id="label-spaced-charge",
          gap=LABEL_SPACED_CHARGE),
     case("Fe ii 3d6(5D)4s a6D9/2", "3d6 4s1", "6D9/2", "Fe+", id="label-smallcaps"),
@@ -859,8 +857,8 @@ def test_cli_term_and_j_columns(cli_term_report: list[dict[str, str]], index: in
 CLI_BAD_TERM_ROWS = [
     ("3P", "7", "j-not-allowed", TERM_POSITION),
     ("2P", "", "term-not-allowed", TERM_POSITION),
-    ("3X", "", "term-syntax", TERM_COLUMN_CODE),
-    ("3P", "x", "term-syntax", TERM_COLUMN_CODE),
+    ("3X", "", "term-syntax", None),
+    ("3P", "x", "term-syntax", None),
 ]
 
 
