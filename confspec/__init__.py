@@ -34,7 +34,7 @@ from ._models import (
     Subshell,
 )
 from ._shielding import ShieldingResult, effective_charge
-from ._terms import Term, allowed_j, hund_ground_term, parse_term, terms
+from ._terms import JKTerm, Term, allowed_j, hund_ground_term, parse_term, terms
 from ._xray import XrayLevel, xray_level, xray_name
 
 __version__ = "0.1.0"
@@ -51,6 +51,7 @@ __all__ = [
     "Element",
     "Excitation",
     "GroundLevel",
+    "JKTerm",
     "Level",
     "ParentTerm",
     "ShieldingResult",

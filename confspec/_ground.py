@@ -29,7 +29,7 @@ from ._errors import ConfspecPhysicsError
 from ._format import largest_core
 from ._models import Configuration, Element, Species
 from ._physics import NOBLE_CORES, Occupancy, filling_key, madelung_sequence, pauli_limit
-from ._terms import Term, hund_ground_term, parse_term
+from ._terms import Term, hund_ground_term, parse_ls_term
 
 __all__ = [
     "Excitation",
@@ -107,7 +107,7 @@ def _row(record: dict[str, str], electrons: int, where: str) -> _Row:
     status = record["status"]
     if status not in ("measured", "predicted"):  # pragma: no cover - guarded by data tests
         raise RuntimeError(f"{where}: unknown status {status!r}")
-    term = parse_term(record["term"]) if record["term"].strip() else None
+    term = parse_ls_term(record["term"]) if record["term"].strip() else None
     prov: Provenance = "measured" if status == "measured" else "predicted"
     return _Row(config, term, prov, record["source"], record.get("note") or "")
 

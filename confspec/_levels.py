@@ -17,16 +17,16 @@ from typing import Any
 
 from pydantic import BaseModel, ConfigDict, Field
 
-from ._errors import ConfspecError, ConfspecPhysicsError
+from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ._models import Configuration, Species
 from ._physics import Parity
-from ._terms import Term, _term, read_term, term_keys
+from ._terms import JKTerm, Term, _term, read_term, term_keys
 
 __all__ = ["Level", "ParentTerm", "parse_level", "validate_level"]
 
 
 def read_term_token(token: str, position: int, text: str
-                    ) -> tuple[Term, Fraction | None, str | None]:
+                    ) -> tuple[Term | JKTerm, Fraction | None, str | None]:
     """(term without J, J, ordering letter) of one TERM or PARENT token of the grammar,
     read by the one term reader; J is checked later, with its own code."""
     inner = token[1:-1] if token.startswith("(") and token.endswith(")") else token
@@ -65,7 +65,7 @@ class Level(BaseModel):
     model_config = ConfigDict(frozen=True, extra="forbid")
 
     configuration: Configuration
-    term: Term | None = None
+    term: Term | JKTerm | None = None
     seniority: str | None = Field(default=None, description="ordering letter: a6D, z7P°")
     parents: tuple[ParentTerm, ...] = ()
     uncertain: str | None = Field(default=None, description="'?' or 'predicted'")
@@ -137,7 +137,9 @@ def _order_pieces(pieces: list[str], groups: list[str], rest: list[Any],
     return groups + pieces
 
 
-def _term_text(term: Term, style: str) -> str:
+def _term_text(term: Term | JKTerm, style: str) -> str:
+    if isinstance(term, JKTerm):
+        return term.format(style if style in ("latex", "html") else "plain")
     if style == "latex":
         j = "" if term.J is None else "_{" + _j(term.J) + "}"
         return f"^{{{term.multiplicity}}}{term.letter}" + ("^{o}" if term.is_odd else "") + j
@@ -177,6 +179,9 @@ def _read(text: str, *, accept_uppercase: bool = False
     start = 0
     for end, token, position in raw.parents:
         parent_term, parent_j, prefix = read_term_token(token, position, text)
+        if isinstance(parent_term, JKTerm):
+            raise ConfspecSyntaxError("term-syntax", "a parent term is an LS term such as (2P°3/2)",
+                                      position=position, text=text)
         labels = []
         for item in items[start:end]:
             label = _item_label(item, config)
@@ -187,7 +192,7 @@ def _read(text: str, *, accept_uppercase: bool = False
                 parent_term.multiplicity, parent_term.L, parent_term.parity, parent_j),
             subshells=tuple(labels), seniority=prefix), position))
         start = end
-    term: Term | None = None
+    term: Term | JKTerm | None = None
     J: Fraction | None = None
     seniority: str | None = None
     term_at: int | None = None
@@ -207,9 +212,12 @@ def _read(text: str, *, accept_uppercase: bool = False
     return level, problems, context
 
 
-def _with_j(term: Term | None, J: Fraction) -> Term | None:
+def _with_j(term: Term | JKTerm | None, J: Fraction) -> Term | JKTerm | None:
     if term is None:
         return None
+    if isinstance(term, JKTerm):
+        return JKTerm.model_construct(multiplicity=term.multiplicity, K=term.K,
+                                      parity=term.parity, J=J)
     return _term(term.multiplicity, term.L, term.parity, J)
 
 
@@ -323,7 +331,9 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
             [(s.n, s.l, s.j2, s.electrons) for s in config.subshells if s.label not in grouped])
         allowed_final = _couple(coupled, term_keys(rest))
     term, J = level.term, context["J"]
-    if term is not None:
+    if isinstance(term, JKTerm):
+        problems.extend(_jk_problems(level, term, J, context))
+    elif term is not None:
         key = (term.multiplicity - 1, term.L)
         if allowed_final is None:
             allowed_final = term_keys(config)
@@ -352,6 +362,49 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
         problems.append(ConfspecPhysicsError(
             "electron-count", f"{config} holds {config.electron_count} electrons; {kind} has "
             f"{kind.electron_count} (Z − charge)", position=None, text=text))
+    return problems
+
+
+def _jk_problems(level: Level, term: JKTerm, J: Fraction | None, context: dict[str, Any]
+                 ) -> list[ConfspecError]:
+    """jK coupling (NIST noble-gas levels, 2p5(2P°3/2)3s 2[3/2]°2): the core's J1 couples
+    with l of the outer electrons to K, and K with their spin s to J."""
+    text, at = context["text"], context["term_at"]
+    config = level.configuration
+    problems: list[ConfspecError] = []
+    grouped = [label for parent in level.parents for label in parent.subshells]
+    open_labels = [s.label for s in config.open_subshells]
+    if level.parents:
+        outer_labels = [s.label for s in config.subshells if s.label not in grouped]
+        core_js = {level.parents[-1].term.J} if level.parents[-1].term.J is not None else set(
+            level.parents[-1].term.allowed_j())
+    else:  # no parent written: the last open subshell is the outer electron
+        outer_labels = open_labels[-1:]
+        core = Configuration._trusted([(s.n, s.l, s.j2, s.electrons) for s in config.subshells
+                                       if s.label not in outer_labels])
+        core_js = set()
+        for two_s, L in term_keys(core):
+            S = Fraction(two_s, 2)
+            core_js.update(abs(L - S) + k for k in range(int(L + S - abs(L - S)) + 1))
+    outer = Configuration._trusted([(s.n, s.l, s.j2, s.electrons) for s in config.subshells
+                                    if s.label in outer_labels])
+    keys = term_keys(outer)
+    spins = {Fraction(two_s, 2) for two_s, _ in keys}
+    possible_k = {abs(j1 - L) + k for j1 in core_js for _, L in keys
+                  for k in range(int(j1 + L - abs(j1 - L)) + 1)}
+    if term.K not in possible_k or term.S not in spins:
+        problems.append(ConfspecPhysicsError(
+            "term-not-allowed", f"{term.without_j()} cannot arise in jK coupling of {config}: K "
+            "runs over " + ", ".join(_j(k) for k in sorted(possible_k)) + " and 2s + 1 over "
+            + ", ".join(str(int(2 * s + 1)) for s in sorted(spins)), position=at, text=text))
+    if J is not None and J not in term.allowed_j():
+        problems.append(ConfspecPhysicsError(
+            "j-not-allowed", f"J = {_j(J)} is not K ± s for {term.without_j()}: "
+            + ", ".join(_j(j) for j in term.allowed_j()), position=at, text=text))
+    if term.parity != config.parity:
+        problems.append(ConfspecPhysicsError(
+            "parity-mismatch", f"{term} is marked {term.parity}, but {config} has "
+            f"{config.parity} parity", position=at, text=text))
     return problems
 
 

@@ -29,7 +29,8 @@ from ._physics import Parity, pauli_limit
 if TYPE_CHECKING:
     from ._models import Configuration
 
-__all__ = ["TERM_LETTERS", "Term", "allowed_j", "hund_ground_term", "parse_term", "terms"]
+__all__ = ["TERM_LETTERS", "JKTerm", "Term", "allowed_j", "hund_ground_term", "parse_term",
+           "terms"]
 
 #: Term letters for L = 0, 1, 2, ... (j is skipped). Larger L is written ``[L]``, e.g. ``2[17]``.
 TERM_LETTERS = "SPDFGHIKLMNOQRTUV"
@@ -73,6 +74,8 @@ class Term(BaseModel):
             except ConfspecError as err:
                 raise PydanticCustomError(err.code, "{message}", {"message": err.message}
                                           ) from None
+            if not isinstance(term, Term):
+                raise PydanticCustomError("term-syntax", "a jK term is not an LS term")
             return {"multiplicity": term.multiplicity, "L": term.L, "parity": term.parity,
                     "J": term.J}
         return data
@@ -167,6 +170,68 @@ class Term(BaseModel):
 
 
 TERM_STYLES = ("plain", "ascii", "unicode", "latex", "html")
+
+
+class JKTerm(BaseModel):
+    """A level in jK (J1K) coupling, as NIST ASD writes the noble gases: ``2[3/2]°2``.
+
+    The core's J1 couples with the outer electron's l to K; K couples with the outer spin s
+    to J. ``multiplicity`` is 2s + 1 of the outer electron(s).
+
+    >>> t = parse_term("2[3/2]°2")
+    >>> t.K, t.J, t.parity, [str(j) for j in t.allowed_j()]
+    (Fraction(3, 2), Fraction(2, 1), 'odd', ['1', '2'])
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    multiplicity: int = Field(ge=1, description="2s + 1 of the outer electron(s)")
+    K: Fraction = Field(description="J1 + l of the outer electron, coupled")
+    parity: Parity = "even"
+    J: Fraction | None = None
+
+    @model_validator(mode="after")
+    def _check_j(self) -> JKTerm:
+        if self.J is not None and self.J not in self.allowed_j():
+            raise PydanticCustomError("invalid-term", "J must be K ± s")
+        return self
+
+    @property
+    def S(self) -> Fraction:
+        return Fraction(self.multiplicity - 1, 2)
+
+    @property
+    def is_odd(self) -> bool:
+        return self.parity == "odd"
+
+    def allowed_j(self) -> tuple[Fraction, ...]:
+        """|K − s| … K + s."""
+        low, high = abs(self.K - self.S), self.K + self.S
+        return tuple(low + k for k in range(int(high - low) + 1))
+
+    def without_j(self) -> JKTerm:
+        return JKTerm.model_construct(multiplicity=self.multiplicity, K=self.K,
+                                      parity=self.parity, J=None)
+
+    def format(self, style: str = "plain") -> str:
+        K = _j_text(self.K)
+        j = "" if self.J is None else _j_text(self.J)
+        mark = ("°" if style in ("plain", "unicode") else "o") if self.is_odd else ""
+        if style == "latex":
+            return f"^{{{self.multiplicity}}}[{K}]" + ("^{o}" if self.is_odd else "") + (
+                f"_{{{j}}}" if j else "")
+        if style == "html":
+            return f"<sup>{self.multiplicity}</sup>[{K}]" + (
+                "<sup>o</sup>" if self.is_odd else "") + (f"<sub>{j}</sub>" if j else "")
+        if style not in TERM_STYLES:
+            raise ConfspecSyntaxError("unknown-option", f"unknown term style {style!r}")
+        return f"{self.multiplicity}[{K}]{mark}{j}"
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"JKTerm('{self}')"
 
 
 def _j_values(multiplicity: int, L: int) -> tuple[Fraction, ...]:
@@ -267,9 +332,6 @@ def _orbital(scan: _Scanner) -> int:
         if not scan.take("}"):
             raise scan.fail("expected '}' after the term letter")
         return L
-    if scan.rest().startswith("[") and "/" in scan.rest().split("]")[0]:
-        raise scan.fail("a jK-coupling term such as 2[3/2]° is not an LS term; confspec "
-                        "reads LS terms (2S+1 L J)", at=start)
     if scan.take("["):
         value = scan.digits()
         if not value or not scan.take("]"):
@@ -335,7 +397,7 @@ def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
 
 
 def read_term(text: str, start: int = 0, end: int | None = None
-              ) -> tuple[Term, Fraction | None, str | None, int | None]:
+              ) -> tuple[Term | JKTerm, Fraction | None, str | None, int | None]:
     """(term without J, J, ordering letter, position of J) of ``text[start:end]``.
 
     J is returned unchecked, so that a level check can name an impossible J with its own
@@ -351,7 +413,8 @@ def read_term(text: str, start: int = 0, end: int | None = None
         prefix = rest[0]  # NIST ordering letter: a5D, z 7P°
         scan.pos += 2 if rest[1] == " " else 1
     multiplicity = _multiplicity(scan)
-    L = _orbital(scan)
+    K = _jk_bracket(scan)
+    L = _orbital(scan) if K is None else 0
     odd = scan.take(*_ODD_MARKS) is not None
     found = _j(scan)
     if not odd and found is not None:
@@ -361,10 +424,35 @@ def read_term(text: str, start: int = 0, end: int | None = None
                         "a parity mark (°, o, *) or J")
     J, j_at = found if found is not None else (None, None)
     parity: Parity = "odd" if odd else "even"
+    if K is not None:
+        return (JKTerm.model_construct(multiplicity=multiplicity, K=K, parity=parity, J=None),
+                J, prefix, j_at)
     return _term(multiplicity, L, parity, None), J, prefix, j_at
 
 
-def parse_term(text: str) -> Term:
+def _jk_bracket(scan: _Scanner) -> Fraction | None:
+    """K of a jK-coupling term, written in brackets as a half-integer: 2[3/2]."""
+    rest = scan.rest()
+    close = rest.find("]")
+    if not rest.startswith("[") or close < 0 or "/" not in rest[:close]:
+        return None
+    top, _, bottom = rest[1:close].partition("/")
+    if not (top.isdigit() and bottom == "2"):
+        raise scan.fail("K of a jK term is a half-integer such as [3/2]")
+    scan.pos += close + 1
+    return Fraction(int(top), 2)
+
+
+def parse_ls_term(text: str) -> Term:
+    """Like :func:`parse_term`, for code that needs an LS term (a jK term is refused)."""
+    term = parse_term(text)
+    if not isinstance(term, Term):
+        raise ConfspecSyntaxError("term-syntax", f"{text!r} is a jK-coupling term, not an LS "
+                                  "term", position=0, text=text)
+    return term
+
+
+def parse_term(text: str) -> Term | JKTerm:
     """Read a term symbol: ``5D4``, ``2P°1/2``, ``^{2}P^{o}_{1/2}``, ``2Po1/2``, ``2P*1/2``,
     ``²P°₁/₂``, ``<sup>2</sup>P<sup>o</sup><sub>1/2</sub>``, ``5D<4>``, ``5D 4``, ``$^5D_4$``,
     ``4F4.5``, or without J (``3P``). A NIST ordering letter (``a 5D``, ``z7P°``) is read
@@ -398,6 +486,13 @@ def parse_term(text: str) -> Term:
     start = len(work) - len(work.lstrip())
     try:
         term, J, _, j_at = read_term(work, start, start + len(stripped))
+        if isinstance(term, JKTerm):
+            if J is not None and J not in term.allowed_j():
+                raise ConfspecPhysicsError(
+                    "invalid-term", f"J = {_j_text(J)} is impossible for K = {_j_text(term.K)}"
+                    f", s = {_j_text(term.S)}: J is K ± s", position=j_at, text=work)
+            return term if J is None else JKTerm.model_construct(
+                multiplicity=term.multiplicity, K=term.K, parity=term.parity, J=J)
         problem = _j_problem(term.multiplicity, term.L, J)
         if problem is not None:
             raise ConfspecPhysicsError("invalid-term", problem, position=j_at, text=work)
@@ -406,11 +501,11 @@ def parse_term(text: str) -> Term:
     return term if J is None else _term(term.multiplicity, term.L, term.parity, J)
 
 
-def _as_term(term: Term | str) -> Term:
+def _as_term(term: Term | JKTerm | str) -> Term | JKTerm:
     return parse_term(term) if isinstance(term, str) else term
 
 
-def allowed_j(term: Term | str) -> list[Fraction]:
+def allowed_j(term: Term | JKTerm | str) -> list[Fraction]:
     """The J values of a term, |L − S| … L + S; each level has weight 2J + 1.
 
     >>> [str(j) for j in allowed_j("3P")]
