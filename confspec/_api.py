@@ -13,7 +13,7 @@ from functools import lru_cache
 from typing import Any
 
 from . import _elements
-from ._clean import Cleaned, clean, is_missing_marker, remap
+from ._clean import Cleaned, clean, is_missing_marker, remap, species_noise
 from ._errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ._fastpath import fast_configuration, fast_raw
 from ._models import Configuration, Element, Species
@@ -214,7 +214,7 @@ def parse_species(text: str) -> Species:
     ('Fe3+', 'Fe2+')
     """
     original = _precheck(text, "species")
-    cleaned = _named(clean(original, notes=False), original)
+    cleaned = species_noise(_named(clean(original, notes=False), original), _z_of)
     text = cleaned.text
     from ._grammar import parse_species_raw
 
@@ -230,6 +230,11 @@ def parse_species(text: str) -> Species:
 
 
 _NAME_WORD = re.compile(r"[A-Za-z]{3,}")
+
+
+def _z_of(symbol: str) -> int | None:
+    row = _elements.by_symbol(symbol)
+    return None if row is None else row.Z
 
 
 def _named(cleaned: Cleaned, original: str) -> Cleaned:

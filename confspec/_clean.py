@@ -14,6 +14,7 @@ from __future__ import annotations
 import html
 import re
 import unicodedata
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from ._errors import ConfspecError
@@ -160,3 +161,43 @@ def remap(err: ConfspecError, original: str, cleaned: Cleaned) -> ConfspecError:
         return err
     return type(err)(err.code, err.message, position=cleaned.position(err.position, original),
                      text=original)
+
+
+def drop(cleaned: Cleaned, spans: list[tuple[int, int]]) -> Cleaned:
+    """``cleaned`` without the character spans given (positions still map back)."""
+    if not spans:
+        return cleaned
+    text = cleaned.text
+    origin = cleaned.origin or tuple(range(len(text)))
+    keep = [i for i in range(len(text)) if not any(a <= i < b for a, b in spans)]
+    return Cleaned("".join(text[i] for i in keep), tuple(origin[i] for i in keep), cleaned.note)
+
+
+_FORBIDDEN_OR_SMILES = re.compile(r"^\[([^\[\]]+)\]$")
+_STATE = re.compile(r"\s*\((?:g|aq|s|l|gas|cr)\)\s*$")
+_MASS_BEFORE = re.compile(r"^(?:\^\{\d{1,3}\}|\^\d{1,3}|[⁰¹²³⁴⁵⁶⁷⁸⁹]{1,3}|\d{1,3})(?=[A-Z])")
+_MASS_AFTER = re.compile(r"^([A-Z][a-z]?)-(\d{1,3})$")
+
+
+def species_noise(cleaned: Cleaned, z_of: Callable[[str], int | None]) -> Cleaned:
+    """Drop what a species cell may carry besides element and charge: the brackets of a
+    forbidden line ``[O III]`` or a SMILES atom ``[Fe+3]``, a physical state ``(g)``/``(aq)``,
+    and a mass number (``⁴⁰Ca⁺``, ``171Yb+``, ``Yb-171``; the electrons do not depend on it)."""
+    text = cleaned.text
+    spans: list[tuple[int, int]] = []
+    whole = _FORBIDDEN_OR_SMILES.match(text)
+    if whole:
+        spans += [(0, 1), (len(text) - 1, len(text))]
+    state = _STATE.search(text)
+    if state and state.start() > 0:
+        spans.append((state.start(), state.end()))
+    body_start = 1 if whole else 0
+    mass = _MASS_BEFORE.match(text[body_start:])
+    if mass:
+        spans.append((body_start, body_start + mass.end()))
+    after = _MASS_AFTER.match(text)
+    if after:
+        z = z_of(after.group(1))
+        if z is not None and int(after.group(2)) >= max(z, 2):
+            spans.append((after.end(1), after.end(2)))
+    return drop(cleaned, spans)

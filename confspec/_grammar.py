@@ -483,7 +483,7 @@ def _syntax_error(err: UnexpectedInput, text: str, offset: int, what: str) -> Co
                 "syntax", f"the {what} ends too early; expected {_expected_words(err.expected)}",
                 position=len(text.rstrip()), text=text)
         position = _pos(token) + offset
-        if token.type == "CORE":
+        if token.type == "CORE" and what in ("configuration", "level designation"):
             return ConfspecSyntaxError(
                 "misplaced-core", f"core {token!s} after the first subshell: only one core, "
                 "at the start (are two configurations in this cell?)",
@@ -495,7 +495,8 @@ def _syntax_error(err: UnexpectedInput, text: str, offset: int, what: str) -> Co
         position = int(err.pos_in_stream or 0) + offset
         char = text[position] if position < len(text) else ""
         allowed = set(err.allowed or ())
-        if char == "[" and "CORE" not in allowed and _CORE_SHAPE.match(text, position):
+        if char == "[" and "CORE" not in allowed and _CORE_SHAPE.match(text, position) \
+                and what in ("configuration", "level designation"):
             return ConfspecSyntaxError(
                 "misplaced-core", "a core after the first subshell: only one core, at the start "
                 "(are two configurations in this cell?)", position=position, text=text)

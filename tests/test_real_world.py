@@ -419,15 +419,15 @@ SPECIES_READ = [
     case("Fe(iii)", "Fe3+", id="smallcaps-oxidation-iii"),
     case("Fe(ii)", "Fe2+", id="smallcaps-oxidation-ii"),
     # Forbidden-line brackets in astronomy tables (common practice, no source)
-    case("[O III]", "O2+", id="forbidden-O-III", gap=FORBIDDEN),
-    case("[Fe II]", "Fe+", id="forbidden-Fe-II", gap=FORBIDDEN),
-    case("[N II]", "N+", id="forbidden-N-II", gap=FORBIDDEN),
+    case("[O III]", "O2+", id="forbidden-O-III"),
+    case("[Fe II]", "Fe+", id="forbidden-Fe-II"),
+    case("[N II]", "N+", id="forbidden-N-II"),
     # SMILES atoms in cheminformatics exports (OpenSMILES; common practice)
-    case("[Fe+3]", "Fe3+", id="smiles-Fe3", gap=SMILES),
-    case("[Fe+2]", "Fe2+", id="smiles-Fe2", gap=SMILES),
-    case("[Na+]", "Na+", id="smiles-Na", gap=SMILES),
-    case("[Cl-]", "Cl-", id="smiles-Cl", gap=SMILES),
-    case("[Fe]", "Fe", id="smiles-neutral", gap=SMILES),
+    case("[Fe+3]", "Fe3+", id="smiles-Fe3"),
+    case("[Fe+2]", "Fe2+", id="smiles-Fe2"),
+    case("[Na+]", "Na+", id="smiles-Na"),
+    case("[Cl-]", "Cl-", id="smiles-Cl"),
+    case("[Fe]", "Fe", id="smiles-neutral"),
     # Typed charges from web pages and OCR (common practice, no source)
     case("Fe⁺³", "Fe3+", id="superscript-sign-first"),
     case("Fe⁺²", "Fe2+", id="superscript-sign-first-2"),
@@ -446,12 +446,12 @@ SPECIES_READ = [
     case("Iron(II)", "Fe2+", id="name-stock-capitalized"),
     case("iron(3+)", "Fe3+", id="name-charge-number"),
     # Physical state and isotopes (thermochemical tables; ion-trap papers; from memory)
-    case("Fe+(g)", "Fe+", id="state-gas", gap=STATE),
-    case("Fe3+(aq)", "Fe3+", id="state-aqueous", gap=STATE),
-    case("⁴⁰Ca⁺", "Ca+", id="isotope-superscript", gap=ISOTOPE),
-    case("171Yb+", "Yb+", id="isotope-plain", gap=ISOTOPE),
-    case("^{40}Ca^{+}", "Ca+", id="isotope-latex", gap=ISOTOPE),
-    case("Yb-171", "Yb", id="isotope-hyphen", gap=ISOTOPE),
+    case("Fe+(g)", "Fe+", id="state-gas"),
+    case("Fe3+(aq)", "Fe3+", id="state-aqueous"),
+    case("⁴⁰Ca⁺", "Ca+", id="isotope-superscript"),
+    case("171Yb+", "Yb+", id="isotope-plain"),
+    case("^{40}Ca^{+}", "Ca+", id="isotope-latex"),
+    case("Yb-171", "Yb", id="isotope-hyphen"),
 ]
 
 
@@ -474,7 +474,7 @@ SPECIES_REFUSED = [
     case("Fe2", "syntax", 3, id="charge-without-sign"),
     case("Fe+-", "syntax", 2, id="mixed-signs"),
     case("Uue", "unknown-element", 0, id="systematic-placeholder"),
-    case("Fe[3+]", "syntax", 2, id="bracketed-charge", gap=BRACKET_CHARGE),
+    case("Fe[3+]", "syntax", 2, id="bracketed-charge"),
 ]
 
 
