@@ -396,7 +396,8 @@ class LevelCheck:
             # problems of the joined term point at the term cell, not past the configuration
             problems = [p if p.position is None or p.position <= len(config_text) else
                         type(p)(p.code, f"term {level_text[len(config_text) + 1:]!r}: "
-                                f"{p.message}", position=None, text=text) for p in problems]
+                                f"{p.message}", position=len(config_text), text=text)
+                        for p in problems]
         if problems:
             return Outcome.make(problems, checked=level_text if level_text != text else None)
         level = parse_level(level_text, accept_uppercase=self.accept_uppercase)

@@ -643,11 +643,10 @@ LEVEL_READ = [
     case("2p5(2P°3/2)3s 2[3/2]°2", "2p5 3s1", "2[3/2]°2", None, id="jK-Ne"),
     case("2p5.3s 2[3/2]° 2", "2p5 3s1", "2[3/2]°2", None, id="jK-Ne-spaced"),
     case("3p5.4s 2[3/2]° 1", "3p5 4s1", "2[3/2]°1", None, id="jK-Ar-spaced"),
-    case("2p5(2P*<3/2>)3s", "2p5 3s1", None, None, id="jK-parent-angle-J", gap=ANGLE_PARENT),
+    case("2p5(2P*<3/2>)3s", "2p5 3s1", None, None, id="jK-parent-angle-J"),
     # Parents: cumulative coupling after one electron (NIST ASD Fe I e 7D; from memory)
     case("3d6(5D)4s(6D)5s e7D5", "3d6 4s1 5s1", "7D5", None, id="cumulative-parent"),
-    case("3d6(⁵D)4s a⁶D₉/₂", "3d6 4s1", "6D9/2", None, id="unicode-parent",
-         gap=UNICODE_PARENT),
+    case("3d6(⁵D)4s a⁶D₉/₂", "3d6 4s1", "6D9/2", None, id="unicode-parent"),
     # Labels and separators from papers and Q&A answers (common practice, no source)
     case("Cu [Ar] 3d10 4s1", "[Ar] 3d10 4s1", None, "Cu", id="label-no-colon-core"),
     case("Na 3s 2S1/2", "3s1", "2S1/2", "Na", id="label-no-colon"),
@@ -855,8 +854,8 @@ def test_cli_term_and_j_columns(cli_term_report: list[dict[str, str]], index: in
 
 # Bad cells in the term and J columns (common practice, no source): (term, J, code, gap)
 CLI_BAD_TERM_ROWS = [
-    ("3P", "7", "j-not-allowed", TERM_POSITION),
-    ("2P", "", "term-not-allowed", TERM_POSITION),
+    ("3P", "7", "j-not-allowed", None),
+    ("2P", "", "term-not-allowed", None),
     ("3X", "", "term-syntax", None),
     ("3P", "x", "term-syntax", None),
 ]
