@@ -25,8 +25,8 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from . import _elements
-from ._errors import ConfspecError, ConfspecPhysicsError
-from ._physics import LETTER_TO_L, SUBSHELL_LETTERS, Occupancy, Parity, pauli_limit
+from ._errors import ConfspecError
+from ._physics import SUBSHELL_LETTERS, Occupancy, Parity, pauli_limit, subshell_numbers
 
 if TYPE_CHECKING:  # the chemistry layer is imported lazily, inside the methods
     from ._ground import Excitation
@@ -259,12 +259,7 @@ class Configuration(BaseModel):
 
     def occupancy(self, label: str) -> int:
         """Electrons in one subshell (0 when absent): ``c.occupancy("3d")``."""
-        letter = label[-1:]
-        try:
-            n, l = int(label[:-1]), LETTER_TO_L[letter]
-        except (ValueError, KeyError):
-            raise ConfspecPhysicsError("invalid-subshell", f"{label!r} is not a subshell label",
-                                       text=label) from None
+        n, l = subshell_numbers(label)
         for sub in self.subshells:
             if sub.n == n and sub.l == l:
                 return sub.electrons

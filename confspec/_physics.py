@@ -104,3 +104,30 @@ def implied_inner_subshells(written: set[tuple[int, int]], missing: int
         if left == 0:
             return tuple(sorted(added))
     return None  # pragma: no cover - the sequence is endless
+
+
+def subshell_numbers(subshell: str | tuple[int, int]) -> tuple[int, int]:
+    """(n, l) of a subshell given as a label (``"3d"``) or a pair, checked: 1 ≤ n, 0 ≤ l < n.
+
+    The one place that reads a bare subshell label for the chemistry functions.
+    """
+    from ._errors import ConfspecPhysicsError
+
+    if isinstance(subshell, tuple):
+        n, l = subshell
+    elif not isinstance(subshell, str):
+        raise TypeError(f"a subshell is a label such as '3d' or an (n, l) pair, not "
+                        f"{type(subshell).__name__}")
+    else:
+        text = subshell.strip()
+        try:
+            n, l = int(text[:-1]), LETTER_TO_L[text[-1:]]
+        except (ValueError, KeyError):
+            raise ConfspecPhysicsError(
+                "invalid-subshell", f"{subshell!r} is not a subshell label such as '3d'",
+                text=subshell) from None
+    if not (isinstance(n, int) and isinstance(l, int)) or n < 1 or not 0 <= l < min(
+            n, len(SUBSHELL_LETTERS)):
+        raise ConfspecPhysicsError("invalid-subshell", f"n = {n}, l = {l} is not a subshell "
+                                   "(1 ≤ n, 0 ≤ l < n)", text=str(subshell))
+    return n, l

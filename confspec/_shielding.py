@@ -25,7 +25,7 @@ from ._data import read_table
 from ._errors import ConfspecPhysicsError, ConfspecSyntaxError
 from ._ground import SpeciesLike, _as_species, ground_level
 from ._models import Configuration, Species
-from ._physics import LETTER_TO_L, SUBSHELL_LETTERS, subshell_label
+from ._physics import subshell_label, subshell_numbers
 
 __all__ = [
     "BOHR_RADIUS_ANGSTROM",
@@ -185,23 +185,7 @@ def clementi_raimondi_table() -> dict[tuple[int, str], float]:
 
 # ---------------------------------------------------------------------------- entry point
 def _subshell(subshell: str | tuple[int, int]) -> tuple[int, int]:
-    if isinstance(subshell, tuple):
-        n, l = subshell
-    elif not isinstance(subshell, str):
-        raise TypeError(f"a subshell is a label such as '3d' or an (n, l) pair, not "
-                        f"{type(subshell).__name__}")
-    else:
-        text = subshell.strip()
-        try:
-            n, l = int(text[:-1]), LETTER_TO_L[text[-1:]]
-        except (ValueError, KeyError):
-            raise ConfspecPhysicsError(
-                "invalid-subshell", f"{subshell!r} is not a subshell label such as '3d'",
-                text=subshell) from None
-    if n < 1 or not 0 <= l < min(n, len(SUBSHELL_LETTERS)):
-        raise ConfspecPhysicsError("invalid-subshell", f"n = {n}, l = {l} is not a subshell",
-                                   text=str(subshell))
-    return n, l
+    return subshell_numbers(subshell)
 
 
 def _as_config(configuration: Configuration | str) -> Configuration:

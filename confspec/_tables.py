@@ -216,8 +216,23 @@ def repair_text_available() -> bool:
     return True
 
 
-@dataclass(frozen=True)
-class ConfigurationCheck:
+@dataclass(frozen=True, kw_only=True)
+class _Options:
+    """What every check shares: strictness, upper case, and the notation to write."""
+
+    strict: bool = False
+    accept_uppercase: bool = False
+    style: str = "plain"
+    core: str = "condense"
+    order: str = "shell"
+
+    def __post_init__(self) -> None:
+        # refuse an unknown style early, with the library's own error
+        parse("1s1").format(style=self.style, core=self.core, order=self.order)
+
+
+@dataclass(frozen=True, kw_only=True)
+class ConfigurationCheck(_Options):
     """Validate a configuration cell (against a species cell when given) and rewrite it.
 
     Repairs run only when asked for and only on a value that fails without them, in this
@@ -229,17 +244,8 @@ class ConfigurationCheck:
 
     roles: ClassVar[tuple[str, ...]] = ("configuration", "species")
 
-    strict: bool = False
-    accept_uppercase: bool = False
     fill_core: bool = False
     repair_text: bool = False
-    style: str = "plain"
-    core: str = "condense"
-    order: str = "shell"
-
-    def __post_init__(self) -> None:
-        # refuse an unknown style early, with the library's own error
-        parse("1s1").format(style=self.style, core=self.core, order=self.order)
 
     def __call__(self, *cells: str | None) -> Outcome:
         configuration = cells[0] if cells else None
@@ -349,8 +355,8 @@ def _j_text(cell: str) -> str:
     return cell.strip()
 
 
-@dataclass(frozen=True)
-class LevelCheck:
+@dataclass(frozen=True, kw_only=True)
+class LevelCheck(_Options):
     """Validate a level designation (``3d6(5D)4s 6D9/2``) and rewrite it canonically.
 
     With ``term_column`` the configuration cell holds only the configuration and the term
@@ -362,15 +368,7 @@ class LevelCheck:
 
     roles: ClassVar[tuple[str, ...]] = ("level", "species", "term", "j")
 
-    strict: bool = False
-    accept_uppercase: bool = False
     term_column: bool = False
-    style: str = "plain"
-    core: str = "condense"
-    order: str = "shell"
-
-    def __post_init__(self) -> None:
-        parse("1s1").format(style=self.style, core=self.core, order=self.order)
 
     def __call__(self, *cells: str | None) -> Outcome:
         from ._levels import parse_level, validate_level
