@@ -134,11 +134,13 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
     return Cleaned(build.text, tuple(build.origin), note)
 
 
+_NOISE = re.compile(
+    "^[=\"'“„‘«`$]|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
+    "|[*†‡§¶#?),;.\\]]\\s*$|(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
+
+
 def _needs_cleaning(text: str) -> bool:
-    return bool(text) and (
-        text[0] in "=\"'“„‘«`$" or "&" in text or "–" in text or "—" in text or "‒" in text
-        or any(ch in _ZERO_WIDTH for ch in text) or any("\uff01" <= ch <= "\uff5e" for ch in text)
-        or text[-1] in "*†‡§¶#?),;.]" or _SPACED_SUPERSCRIPT.search(text) is not None)
+    return bool(text) and _NOISE.search(text) is not None
 
 
 def _unwrap(build: _Builder) -> None:

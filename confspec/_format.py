@@ -68,6 +68,10 @@ def register_style(style: Style) -> None:
     if style.name in _STYLES:
         raise ValueError(f"a style named {style.name!r} exists already")
     _STYLES[style.name] = style
+    if "_CORE_HEAD" in globals():  # styles registered after import get their caches too
+        _TOKEN_TEXT_BY_STYLE[style.name] = {}
+        _CORE_HEAD[style.name] = {symbol: style.core.format(symbol=symbol)
+                                  for symbol in NOBLE_CORES}
 
 
 for _style in (
@@ -136,13 +140,9 @@ def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, in
     if core_symbol is not None:
         symbol: str | None = core_symbol
     elif core == "condense":
-        if any(t[2] for t in occ):
-            nl_view: dict[tuple[int, int], int] = {}
-            for n, l, _, e in occ:
-                nl_view[(n, l)] = nl_view.get((n, l), 0) + e
-            symbol = largest_core((n, l, e) for (n, l), e in nl_view.items())
-        else:
-            symbol = largest_core((n, l, e) for n, l, _, e in occ)
+        # j parts never look like a full core subshell: a full pair is merged into nl, and
+        # one part holds fewer than 2(2l + 1) electrons
+        symbol = largest_core([(n, l, e) for n, l, _, e in occ])
     else:
         symbol = None
     inside = _CORE_INSIDE[symbol] if symbol else frozenset()
@@ -162,6 +162,41 @@ def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, in
         return body
     head = fmt.core.format(symbol=symbol)
     return head + fmt.after_core + body if body else head
+
+
+def _render_shell(quads: list[tuple[int, int, int, int]], fmt: Style, core: str) -> str:
+    """The common case of :func:`render`: a model's own subshells (already in shell
+    order) in shell order, no holes, no j splitting."""
+    symbol = None
+    if core == "condense":
+        have = {(n, l, e) for n, l, _, e in quads}
+        for name, core_set, _, outermost in _CORE_SETS:
+            if outermost in have and core_set <= have:
+                symbol = name
+                break
+    cache = _TOKEN_TEXT_BY_STYLE[fmt.name]
+    if symbol is None:
+        return fmt.separator.join([cache.get(t) or _cached_style_token(fmt, t, cache)
+                                   for t in quads])
+    inside = _CORE_INSIDE[symbol]
+    body = fmt.separator.join([cache.get(t) or _cached_style_token(fmt, t, cache)
+                               for t in quads if (t[0], t[1]) not in inside])
+    head = _CORE_HEAD[fmt.name][symbol]
+    return head + fmt.after_core + body if body else head
+
+
+_TOKEN_TEXT_BY_STYLE: dict[str, dict[tuple[int, int, int, int], str]] = {
+    name: {} for name in _STYLES}
+_CORE_HEAD = {name: {symbol: style.core.format(symbol=symbol) for symbol in NOBLE_CORES}
+              for name, style in _STYLES.items()}
+
+
+def _cached_style_token(fmt: Style, t: tuple[int, int, int, int],
+                        cache: dict[tuple[int, int, int, int], str]) -> str:
+    text = _token(fmt, *t)
+    if len(cache) < 100_000:
+        cache[t] = text
+    return text
 
 
 def _split(token: tuple[int, int, int, int]) -> list[tuple[int, int, int, int]]:
@@ -192,8 +227,11 @@ def format_configuration(config: Configuration, *, style: str = "plain", core: s
                          order: str = "shell", holes_relative_to: Any = None,
                          split_j: bool = False) -> str:
     if holes_relative_to is None:
-        return render([(s.n, s.l, s.j2, s.electrons) for s in config.subshells], style=style,
-                      core=core, order=order, split_j=split_j)
+        quads = [(s.n, s.l, 0 if s.j is None else int(2 * s.j), s.electrons)
+                 for s in config.subshells]
+        if order == "shell" and not split_j and style in _STYLES and core in CORE_MODES:
+            return _render_shell(quads, _STYLES[style], core)
+        return render(quads, style=style, core=core, order=order, split_j=split_j)
     from ._holes import render_with_holes
 
     return render_with_holes(config, holes_relative_to, style=style, core=core, order=order)

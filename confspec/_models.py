@@ -26,6 +26,7 @@ from pydantic_core import PydanticCustomError
 
 from . import _elements
 from ._errors import ConfspecError
+from ._format import format_configuration
 from ._physics import SUBSHELL_LETTERS, Occupancy, Parity, pauli_limit, subshell_numbers
 
 if TYPE_CHECKING:  # the chemistry layer is imported lazily, inside the methods
@@ -255,7 +256,7 @@ class Configuration(BaseModel):
 
     @property
     def electron_count(self) -> int:
-        return sum(s.electrons for s in self.subshells)
+        return sum([s.electrons for s in self.subshells])
 
     def occupancy(self, label: str) -> int:
         """Electrons in one subshell (0 when absent): ``c.occupancy("3d")``."""
@@ -300,8 +301,6 @@ class Configuration(BaseModel):
                **options: Any) -> str:
         """Write in a notation: style plain|caret|unicode|latex|html|dotted,
         core condense|expand, order shell|filling."""
-        from ._format import format_configuration
-
         return format_configuration(self, style=style, core=core, order=order, **options)
 
     def __format__(self, spec: str) -> str:
