@@ -541,7 +541,28 @@ def _cmd_show(args: argparse.Namespace) -> int:
             species_text), accept_uppercase=args.accept_uppercase)
     except ConfspecError:
         config = None
+    level = None
+    if config is None:  # perhaps a level designation: 3d6(5D)4s 6D9/2
+        from ._levels import parse_level, validate_level
+
+        try:
+            level = parse_level(text, accept_uppercase=args.accept_uppercase)
+        except ConfspecError:
+            level = None
+        if level is not None:
+            config = level.configuration
+            problems = validate_level(level, species_text)
+            if species_text is None and level.species is not None:
+                species_text = str(level.species)
     _out(f"input          {text!r}")
+    if level is not None:
+        rows.append(("level", level.format()))
+        if level.term is not None:
+            j = "" if level.J is None else f", J = {level.J}, statistical weight " \
+                f"{level.statistical_weight}"
+            rows.append(("term", f"{level.term}{j}"))
+        for parent in level.parents:
+            rows.append(("parent", f"{parent} of {' '.join(parent.subshells)}"))
     if config is not None:
         rows.append(("canonical", str(config)))
         rows.append(("expanded", config.format(core="expand")))
@@ -565,6 +586,11 @@ def _cmd_show(args: argparse.Namespace) -> int:
         rows.append(("species", detail))
     for label, value in rows:
         _out(f"  {label:<14} {value}")
+    if config is not None and config.subshells:
+        from ._diagrams import box_diagram_text
+
+        _out("  orbital boxes (filling order; arrows by Hund's rule):")
+        _out(_indent(box_diagram_text(config, order="filling"), 4))
     if config is not None:
         _show_chemistry(config, species)
     if problems:
