@@ -41,7 +41,7 @@ bench: $(VENV)/.dev-installed
 
 docs: $(VENV)/.dev-installed
 	MPLBACKEND=Agg $(PY) scripts/make_figures.py
-	$(PY) -m mkdocs build --strict
+	NO_MKDOCS_2_WARNING=1 $(PY) -m mkdocs build --strict
 
 clean:
 	rm -rf $(VENV) site build dist .pytest_cache .mypy_cache .ruff_cache .hypothesis
