@@ -139,12 +139,12 @@ def _order_pieces(pieces: list[str], groups: list[str], rest: list[Any],
 
 def _term_text(term: Term | JKTerm, style: str) -> str:
     if isinstance(term, JKTerm):
-        return term.format(style if style in ("latex", "html") else "plain")
+        return term.format(style if style in ("latex", "html", "unicode") else "plain")
     if style == "latex":
         j = "" if term.J is None else "_{" + _j(term.J) + "}"
         return f"^{{{term.multiplicity}}}{term.letter}" + ("^{o}" if term.is_odd else "") + j
-    if style == "html":
-        return term.format("html")
+    if style in ("html", "unicode"):
+        return term.format(style)
     return term.format("plain")
 
 
