@@ -50,7 +50,7 @@ def test_normalize_levels_keeps_every_row(levels: Path, tmp_path: Path) -> None:
     assert done.returncode == 1
     rows = read_csv(out)
     assert len(rows) == len(LEVEL_ROWS)
-    assert rows[0]["level"] == "3d⁶ 4s² 5D4" and rows[0]["status"] == "ok"
+    assert rows[0]["level"] == "3d⁶ 4s² ⁵D₄" and rows[0]["status"] == "ok"
     assert rows[3]["level"] == "2p2 1P" and rows[3]["code"] == "term-not-allowed"
 
 
