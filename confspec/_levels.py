@@ -31,6 +31,9 @@ def read_term_token(token: str, position: int, text: str
     read by the one term reader; J is checked later, with its own code."""
     inner = token[1:-1] if token.startswith("(") and token.endswith(")") else token
     offset = position + (1 if inner is not token else 0)
+    if inner.startswith("$"):  # a term in LaTeX math: $^5D_4$
+        inner, offset = inner[1:], offset + 1
+    inner = inner.removesuffix("$")
     padded = " " * offset + inner
     try:
         term, J, prefix, _ = read_term(padded, offset)

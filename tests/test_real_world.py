@@ -653,8 +653,8 @@ LEVEL_READ = [
     case("Fe 2+: [Ar] 3d6", "[Ar] 3d6", None, "Fe2+", id="label-spaced-charge",
          gap=LABEL_SPACED_CHARGE),
     case("Fe ii 3d6(5D)4s a6D9/2", "3d6 4s1", "6D9/2", "Fe+", id="label-smallcaps"),
-    case("3d6 4s2, 5D4", "3d6 4s2", "5D4", None, id="comma-before-term", gap=COMMA_TERM),
-    case("3d6 4s2 $^5D_4$", "3d6 4s2", "5D4", None, id="latex-term", gap=LATEX_TERM),
+    case("3d6 4s2, 5D4", "3d6 4s2", "5D4", None, id="comma-before-term"),
+    case("3d6 4s2 $^5D_4$", "3d6 4s2", "5D4", None, id="latex-term"),
 ]
 
 
