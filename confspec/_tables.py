@@ -46,6 +46,7 @@ from . import (
 )
 from . import validate as validate_text
 from ._clean import clean
+from ._fastpath import fast_configuration
 from ._physics import implied_inner_subshells, subshell_label
 
 __all__ = [
@@ -255,6 +256,15 @@ class ConfigurationCheck(_Options):
             return Outcome.make(validate_text(""))
         species = species.strip() if species is not None and species.strip() else None
         text = configuration
+        if species is None:
+            fast = fast_configuration(text)  # a common, valid spelling: nothing to repair
+            if fast is not None:
+                written = fast.format(style=self.style, core=self.core, order=self.order)
+                if self.strict and str(fast) != text:
+                    return Outcome.make([ConfspecPhysicsError(
+                        "non-canonical", f"valid, but the canonical spelling is {str(fast)!r}",
+                        position=None, text=text)], written, (), None, fast.electron_count)
+                return Outcome.make((), written, (), None, fast.electron_count)
         fixes: list[str] = []
         upper = False
         config, errors = self._read(text, species, upper)
