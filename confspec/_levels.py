@@ -156,14 +156,34 @@ def _j(J: Fraction) -> str:
 
 
 # ---------------------------------------------------------------------------- reading
+_SPACED_LABEL_CHARGE = re.compile(r"^[A-Z][a-z]?( )(?:\d*[+\-−]+|[+\-−]\d+)\s*[:=]")
+
+
 def _read(text: str, *, accept_uppercase: bool = False
           ) -> tuple[Level | None, list[ConfspecError], dict[str, Any]]:
-    """Parse and resolve; physics problems of the configuration are collected."""
-    from ._api import _precheck, parse_species
+    """Clean, parse and resolve; problems point into ``text`` as written."""
+    from ._api import _precheck
+    from ._clean import clean, drop, remap
+
+    original = _precheck(text, "level designation")
+    cleaned = clean(original, notes=False)
+    spaced = _SPACED_LABEL_CHARGE.match(cleaned.text)  # 'Fe 2+: [Ar] 3d6'
+    if spaced:
+        cleaned = drop(cleaned, [spaced.span(1)])
+    try:
+        level, problems, context = _read_clean(cleaned.text, accept_uppercase)
+    except ConfspecError as err:
+        raise remap(err, original, cleaned) from None
+    context["remap"] = lambda err: remap(err, original, cleaned)
+    return level, [remap(p, original, cleaned) for p in problems], context
+
+
+def _read_clean(text: str, accept_uppercase: bool
+                ) -> tuple[Level | None, list[ConfspecError], dict[str, Any]]:
+    from ._api import parse_species
     from ._grammar import parse_level_raw
     from ._resolve import resolve
 
-    text = _precheck(text, "level designation")
     raw = parse_level_raw(text)
     problems: list[ConfspecError] = []
     occupancies, errors = resolve(raw.configuration, text, accept_uppercase=accept_uppercase)
@@ -245,7 +265,7 @@ def parse_level(text: str, *, accept_uppercase: bool = False) -> Level:
     """
     level, problems, context = _read(text, accept_uppercase=accept_uppercase)
     if level is not None and not problems:
-        problems = _consistency(level, context, None)
+        problems = [context["remap"](p) for p in _consistency(level, context, None)]
     if problems:
         raise problems[0]
     assert level is not None
@@ -287,7 +307,8 @@ def validate_level(level: Level | str, species: Species | str | None = None, *,
             return problems  # the parts cannot be compared with a broken configuration
     if parsed is None:
         return problems
-    problems.extend(_consistency(parsed, context, kind))
+    where = context.get("remap", lambda err: err)
+    problems.extend(where(p) for p in _consistency(parsed, context, kind))
     return problems
 
 

@@ -650,8 +650,7 @@ LEVEL_READ = [
     # Labels and separators from papers and Q&A answers (common practice, no source)
     case("Cu [Ar] 3d10 4s1", "[Ar] 3d10 4s1", None, "Cu", id="label-no-colon-core"),
     case("Na 3s 2S1/2", "3s1", "2S1/2", "Na", id="label-no-colon"),
-    case("Fe 2+: [Ar] 3d6", "[Ar] 3d6", None, "Fe2+", id="label-spaced-charge",
-         gap=LABEL_SPACED_CHARGE),
+    case("Fe 2+: [Ar] 3d6", "[Ar] 3d6", None, "Fe2+", id="label-spaced-charge"),
     case("Fe ii 3d6(5D)4s a6D9/2", "3d6 4s1", "6D9/2", "Fe+", id="label-smallcaps"),
     case("3d6 4s2, 5D4", "3d6 4s2", "5D4", None, id="comma-before-term"),
     case("3d6 4s2 $^5D_4$", "3d6 4s2", "5D4", None, id="latex-term"),
