@@ -41,6 +41,7 @@ _NOTE = re.compile(r"""(?:
     )+\s*$""", re.IGNORECASE | re.VERBOSE)
 _TRAILING_PUNCT = re.compile(r"\s*[,;.]\s*$")
 _ENTITY = re.compile(r"&(?:#\d{1,6}|#x[0-9a-fA-F]{1,6}|[A-Za-z][A-Za-z0-9]{1,10});")
+_LATEX_WRAPPER = re.compile(r"\\(?:mathrm|text|rm|mathit|textrm)\s*\{([^{}]*)\}")
 _SPACED_SUPERSCRIPT = re.compile(r"(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
 
 
@@ -109,6 +110,13 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
     build.keep(lead, lead + len(simple))
     _unwrap(build)
     build.replace(_ENTITY)
+    for match in reversed(list(_LATEX_WRAPPER.finditer(build.text))):
+        # \mathrm{[Ar]} -> [Ar]: drop the command and its closing brace, keep the content
+        inner_end = match.end() - 1
+        build.chars[inner_end:match.end()] = []
+        build.origin[inner_end:match.end()] = []
+        build.chars[match.start():match.start(1)] = []
+        build.origin[match.start():match.start(1)] = []
     if any(ch in _ZERO_WIDTH for ch in build.chars):
         build.replace(re.compile(f"[{_ZERO_WIDTH}]"), " ")  # an invisible separator
     if any("\uff01" <= ch <= "\uff5e" for ch in build.chars):
@@ -135,7 +143,7 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
 
 
 _NOISE = re.compile(
-    "^[=\"'“„‘«`$]|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
+    "^[=\"'“„‘«`$]|\\\\(?:mathrm|text|rm)|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
     "|[*†‡§¶#?),;.\\]]\\s*$|(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
 
 

@@ -226,8 +226,7 @@ CONFIG_READ = [
     case(r"[\text{Ar}]3d^6 4s^2", "[Ar] 3d6 4s2", id="latex-text-core"),
     case(r"$[\mathrm{Xe}]4f^{14}5d^{10}6s^2$", "[Xe] 4f14 5d10 6s2", id="latex-whole-math"),
     case(r"$1s^22s^22p^6$", "[Ne]", id="latex-whole-math-run-together"),
-    case(r"\mathrm{[Ar]}\,3d^6\,4s^2", "[Ar] 3d6 4s2", id="latex-mathrm-around-brackets",
-         gap=LATEX_WRAP),
+    case(r"\mathrm{[Ar]}\,3d^6\,4s^2", "[Ar] 3d6 4s2", id="latex-mathrm-around-brackets"),
     # Text pulled out of PDFs: superscripts dropped to the baseline after a space
     # (common practice, no source)
     case("[Ar] 3d 6 4s 2", "[Ar] 3d6 4s2", id="pdf-dropped-superscripts"),
