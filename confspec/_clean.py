@@ -41,6 +41,12 @@ _NOTE = re.compile(r"""(?:
     )+\s*$""", re.IGNORECASE | re.VERBOSE)
 _TRAILING_PUNCT = re.compile(r"\s*[,;.]\s*$")
 _ENTITY = re.compile(r"&(?:#\d{1,6}|#x[0-9a-fA-F]{1,6}|[A-Za-z][A-Za-z0-9]{1,10});")
+_EXCEL_CELL = re.compile(r'="([^"]*)"')  # NIST's CSV for Excel, cells pasted together
+_LEAD_NOTE = re.compile(r"\s*[*†‡]+\s*")
+_DOLLAR = re.compile(r"\$")
+_THIN_SPACE_AFTER_LETTER = re.compile(r"(?<=\b[a-z])\\,(?=\^)")  # 'a\,^5D'
+
+_TEX_GROUP_RM = re.compile(r"\{\\rm\s+([^{}]*)\}")
 _LATEX_WRAPPER = re.compile(r"\\(?:mathrm|text|rm|mathit|textrm)\s*\{([^{}]*)\}")
 _SPACED_SUPERSCRIPT = re.compile(r"(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
 
@@ -108,15 +114,12 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
     build = _Builder(text)
     lead = len(text) - len(text.lstrip())
     build.keep(lead, lead + len(simple))
+    if build.text.count('="') > 1:  # several Excel-wrapped cells pasted together
+        _drop_wrappers(build, _EXCEL_CELL)
     _unwrap(build)
     build.replace(_ENTITY)
-    for match in reversed(list(_LATEX_WRAPPER.finditer(build.text))):
-        # \mathrm{[Ar]} -> [Ar]: drop the command and its closing brace, keep the content
-        inner_end = match.end() - 1
-        build.chars[inner_end:match.end()] = []
-        build.origin[inner_end:match.end()] = []
-        build.chars[match.start():match.start(1)] = []
-        build.origin[match.start():match.start(1)] = []
+    for pattern in (_LATEX_WRAPPER, _TEX_GROUP_RM):  # \mathrm{[Ar]} -> [Ar], {\rm o} -> o
+        _drop_wrappers(build, pattern)
     if any(ch in _ZERO_WIDTH for ch in build.chars):
         build.replace(re.compile(f"[{_ZERO_WIDTH}]"), " ")  # an invisible separator
     if any("\uff01" <= ch <= "\uff5e" for ch in build.chars):
@@ -125,6 +128,14 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
     if any(ch in _DASHES for ch in build.chars):
         build.replace(re.compile("[–—‒‐‑]"), convert=_DASHES)
     note = None
+    lead_note = _LEAD_NOTE.match(build.text) if notes else None
+    if lead_note is not None and lead_note.end() < len(build.text):
+        note = lead_note.group().strip()  # '*[Rn] 5f14 6d2 7s2': a mark for "predicted"
+        build.keep(lead_note.end(), len(build.chars))
+    if "$" in build.text:  # LaTeX math, whole or in pieces: the dollars are not notation
+        build.replace(_DOLLAR, "")
+    if "\\," in build.text:  # a LaTeX thin space between parts of a level: a space
+        build.replace(_THIN_SPACE_AFTER_LETTER, " ")
     found = _NOTE.search(build.text) if notes else None
     if found is not None and found.start() > 0:
         note = found.group().strip()
@@ -143,8 +154,19 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
 
 
 _NOISE = re.compile(
-    "^[=\"'“„‘«`$]|\\\\(?:mathrm|text|rm)|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
+    "^\\s*[*†‡]|\\$|^[=\"'“„‘«`]|\\\\(?:mathrm|text|rm)"
+    "|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
     "|[*†‡§¶#?),;.\\]]\\s*$|(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
+
+
+def _drop_wrappers(build: _Builder, pattern: re.Pattern[str]) -> None:
+    """Keep group 1 of every match and drop the rest of it (one closing character)."""
+    for match in reversed(list(pattern.finditer(build.text))):
+        inner_end = match.end() - 1
+        build.chars[inner_end:match.end()] = []
+        build.origin[inner_end:match.end()] = []
+        build.chars[match.start():match.start(1)] = []
+        build.origin[match.start():match.start(1)] = []
 
 
 def _needs_cleaning(text: str) -> bool:
@@ -152,7 +174,10 @@ def _needs_cleaning(text: str) -> bool:
 
 
 def _unwrap(build: _Builder) -> None:
-    """Drop an Excel ``="…"`` wrapper, surrounding quotes, or ``$…$`` around the value."""
+    """Drop an Excel ``="…"`` wrapper or its text-forcing apostrophe, surrounding quotes,
+    or ``$…$`` around the value."""
+    if build.text.startswith("'") and not build.text.endswith("'"):
+        build.keep(1, len(build.chars))  # Excel's apostrophe that forces a cell to text
     for _ in range(3):
         text = build.text
         for opening, closing in [*_QUOTES, ("$", "$")]:

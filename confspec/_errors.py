@@ -135,6 +135,9 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
      "The parity mark disagrees with the configuration's parity ('2p 2P' without °, "
      "'3d 2D°').",
      "Mark odd terms with °, o or *; the parity is that of the sum of l over all electrons."),
+    ("series-limit", "syntax",
+     "A level table's ionization-limit row ('Limit') where a level is expected.",
+     "Nothing to fix: drop limit rows before checking levels, or keep them as they are."),
     ("unknown-xray-level", "syntax",
      "An IUPAC X-ray level name that does not exist ('L4', 'K2', 'M6').",
      "Use K, L1–L3, M1–M5, N1–N7, O1–O7, P1–P7, Q1, or a combined edge such as L2,3."),

@@ -11,7 +11,6 @@ the electron count matches the species.
 from __future__ import annotations
 
 import re
-from collections.abc import Iterable
 from fractions import Fraction
 from typing import Any
 
@@ -105,16 +104,19 @@ class Level(BaseModel):
         else:
             grouped = {label for parent in self.parents for label in parent.subshells}
             rest = [s for s in self.configuration.subshells if s.label not in grouped]
-            pieces = [render([(s.n, s.l, s.j2, s.electrons) for s in rest], style=config_style,
-                             core=core, order=order)] if rest else []
-            groups = []
+            lowest = min((subs[label].n, subs[label].l) for label in grouped if label in subs)
+            # subshells below every group (a core among them) come first, condensed; the
+            # others follow the groups, as level tables write them (3d6(5D) 4s1)
+            before = [s for s in rest if (s.n, s.l) < lowest]
+            after = [s for s in rest if (s.n, s.l) >= lowest]
+            pieces = [render([(s.n, s.l, s.j2, s.electrons) for s in before],
+                             style=config_style, core=core, order=order)] if before else []
             for parent in self.parents:
                 tokens = [_token(fmt, s.n, s.l, s.j2, s.electrons)
-                          for s in (subs[label] for label in parent.subshells)]
-                groups.append(fmt.separator.join(tokens) + str(parent))
-            # the subshells outside every group come first only when they are a core or
-            # lie below the first group; otherwise after the last group
-            body = fmt.separator.join(_order_pieces(pieces, groups, rest, self.parents))
+                          for s in (subs[label] for label in parent.subshells if label in subs)]
+                pieces.append(fmt.separator.join(tokens) + str(parent))
+            pieces += [_token(fmt, s.n, s.l, s.j2, s.electrons) for s in after]
+            body = fmt.separator.join(pieces)
         parts.append(body)
         if self.term is not None:
             parts.append(" " + (self.seniority or "") + _term_text(self.term, style))
@@ -127,17 +129,6 @@ class Level(BaseModel):
 
     def __repr__(self) -> str:
         return f"Level('{self}')"
-
-
-def _order_pieces(pieces: list[str], groups: list[str], rest: list[Any],
-                  parents: Iterable[ParentTerm]) -> list[str]:
-    if not pieces:
-        return groups
-    first_group = next(iter(parents)).subshells
-    first_n = min(int(re.sub(r"\D.*", "", label)) for label in first_group)
-    if all(s.n <= first_n for s in rest):
-        return pieces + groups
-    return groups + pieces
 
 
 def _term_text(term: Term | JKTerm, style: str) -> str:
@@ -156,6 +147,7 @@ def _j(J: Fraction) -> str:
 
 
 # ---------------------------------------------------------------------------- reading
+_LIMIT = re.compile(r"\bLimit\b", re.IGNORECASE)
 _SPACED_LABEL_CHARGE = re.compile(r"^[A-Z][a-z]?( )(?:\d*[+\-−]+|[+\-−]\d+)\s*[:=]")
 
 
@@ -166,6 +158,11 @@ def _read(text: str, *, accept_uppercase: bool = False
     from ._clean import clean, drop, remap
 
     original = _precheck(text, "level designation")
+    limit = _LIMIT.search(original)
+    if limit is not None:
+        raise ConfspecSyntaxError(
+            "series-limit", "this is the ionization limit of a level table ('Limit'), not a "
+            "level; nothing to check", position=limit.start(), text=original)
     cleaned = clean(original, notes=False)
     spaced = _SPACED_LABEL_CHARGE.match(cleaned.text)  # 'Fe 2+: [Ar] 3d6'
     if spaced:

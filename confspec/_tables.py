@@ -355,7 +355,13 @@ _J_WHOLE = re_compile(r"^\s*(\d+)\.0*\s*$")
 
 
 def _j_text(cell: str) -> str:
-    """J as a level table writes it: ``4``, ``9/2``, or a decimal ``4.5`` read as 9/2."""
+    """J as a level table writes it: ``4``, ``9/2``, a decimal ``4.5`` read as 9/2, a
+    tentative ``[3]``, or ``5/2,3/2`` for unresolved fine structure (no single J: "")."""
+    cell = clean(cell, notes=False).text.strip().rstrip("?").strip()
+    if cell.startswith("[") and cell.endswith("]"):
+        cell = cell[1:-1].strip()  # NIST brackets a tentative J
+    if "," in cell:
+        return ""
     decimal = _J_DECIMAL.match(cell)
     if decimal:
         return f"{2 * int(decimal.group(1)) + 1}/2"
@@ -388,17 +394,27 @@ class LevelCheck(_Options):
             return Outcome.make(validate_text(text or ""))
         species = species.strip() if species is not None and species.strip() else None
         level_text = text
-        config_text = text.strip()
+        config_text = clean(text, notes=False).text.strip()
         if term is not None and term.strip():
             term_text = _term_cell(term, j)
             if isinstance(term_text, ConfspecError):
                 return Outcome.make([term_text])
             level_text = f"{config_text} {term_text}"
-        elif j is not None and j.strip():
-            problem = ConfspecPhysicsError(
-                "j-not-allowed", f"J {j.strip()!r} is given without a term to check it against",
-                position=None, text=text)
-            return Outcome.make([problem])
+        elif j is not None and j.strip() and _j_text(j):
+            # a level listed by J alone: J must be half-integer exactly for an odd number of
+            # electrons (closed shells left unwritten hold an even number)
+            j_value = _j_text(j)
+            if not _J_TEXT.fullmatch(j_value):
+                return Outcome.make([ConfspecSyntaxError(
+                    "term-syntax", f"J column: {j.strip()!r} is not a J such as 4, 9/2 or 4.5",
+                    position=0, text=j.strip())])
+            if not validate_level(level_text, species, accept_uppercase=self.accept_uppercase):
+                electrons = parse_level(level_text).configuration.electron_count
+                if ("/" in j_value) != (electrons % 2 == 1):
+                    return Outcome.make([ConfspecPhysicsError(
+                        "j-not-allowed", f"J = {j_value} is impossible for {electrons} electrons"
+                        ": J is half-integer exactly when the electron count is odd",
+                        position=None, text=text)])
         problems = validate_level(level_text, species, accept_uppercase=self.accept_uppercase)
         if problems and level_text != text:
             # problems of the joined term point at the term cell, not past the configuration
@@ -428,7 +444,13 @@ def _term_cell(term: str, j: str | None) -> str | ConfspecError:
     the problem located in the cell it came from."""
     from ._terms import read_term
 
-    cell = term.strip()
+    cell = clean(term, notes=False).text.strip()
+    query = cell.endswith("?")
+    cell = cell.rstrip("?").strip()
+    if cell.lower() == "limit":
+        return ConfspecSyntaxError(
+            "series-limit", "this row is the ionization limit of the table ('Limit'), not a "
+            "level; nothing to check", position=0, text=term.strip())
     try:
         parsed, j_in_term, prefix, _ = read_term(cell)
     except ConfspecError as err:
@@ -436,14 +458,14 @@ def _term_cell(term: str, j: str | None) -> str | ConfspecError:
         return type(err)(code, f"term column: {err.message}", position=err.position, text=cell)
     if j is not None and j.strip() and j_in_term is None:
         j_text = _j_text(j)
-        if not _J_TEXT.fullmatch(j_text):
+        if j_text and not _J_TEXT.fullmatch(j_text):
             return ConfspecSyntaxError(
                 "term-syntax", f"J column: {j.strip()!r} is not a J such as 4, 9/2 or 4.5",
                 position=0, text=j.strip())
     else:
         j_text = "" if j_in_term is None else (
             str(j_in_term) if j_in_term.denominator == 1 else f"{j_in_term.numerator}/2")
-    return f"{prefix or ''}{parsed}{j_text}"
+    return f"{prefix or ''}{parsed}{j_text}" + (" ?" if query else "")
 
 
 _J_TEXT = re_compile(r"\d+(?:/2)?")

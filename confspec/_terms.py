@@ -353,7 +353,7 @@ def _orbital(scan: _Scanner) -> int:
 
 def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
     start = scan.pos
-    if scan.rest()[:1] == " " and (scan.rest()[1:2].isdigit() or scan.rest()[1:2] in "½<"):
+    if scan.rest()[:1] == " " and (scan.rest()[1:2].isdigit() or scan.rest()[1:2] in "½<["):
         scan.pos += 1  # Term and J columns pasted into one cell: '5D 4'
     close = ""
     if scan.take("_{"):
@@ -362,6 +362,8 @@ def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
         close = "</sub>"
     elif scan.take("<"):
         close = ">"  # NIST's ASCII output writes J in angle brackets: 5D<4>
+    elif scan.take("["):
+        close = "]"  # a tentative J, bracketed in NIST level tables: 5D [3]
     elif scan.take("_"):
         pass
     if scan.rest()[:1] and scan.rest()[:1] in _SUBSCRIPT_DIGITS:
@@ -393,6 +395,12 @@ def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
         value = Fraction(int(top), int(bottom))
     if close and not scan.take(close):
         raise scan.fail(f"expected {close!r} after J")
+    if scan.rest()[:1] == "," and scan.rest()[1:2].isdigit():
+        while scan.take(","):  # '5/2,3/2': fine structure not resolved, so no single J
+            scan.digits()
+            if scan.take("/"):
+                scan.digits()
+        return None
     return value, number_at
 
 
@@ -409,7 +417,8 @@ def read_term(text: str, start: int = 0, end: int | None = None
     rest = scan.rest()
     if len(rest) > 2 and rest[0] in "abcdefghijklmnopqrstuvwxyz" and (
             rest[1].isdigit() or rest[1] in _SUPERSCRIPT_DIGITS or rest[1] in "^<"
-            or (rest[1] == " " and (rest[2].isdigit() or rest[2] in _SUPERSCRIPT_DIGITS))):
+            or (rest[1] == " " and (rest[2].isdigit() or rest[2] in _SUPERSCRIPT_DIGITS
+                                    or rest[2] in "^<"))):
         prefix = rest[0]  # NIST ordering letter: a5D, z 7P°
         scan.pos += 2 if rest[1] == " " else 1
     multiplicity = _multiplicity(scan)

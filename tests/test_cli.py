@@ -143,6 +143,8 @@ NOT_ROW_CODES = {
     "j-not-allowed": "level columns (--level): reached in tests/test_cli_levels.py",
     "parent-not-allowed": "level columns (--level): reached in tests/test_cli_levels.py",
     "too-many-terms": "listing terms (confspec.terms), not a cell check",
+    "series-limit": "level columns: the 'Limit' row of a level table, reached in "
+                    "tests/test_published_tables.py",
     "unknown-xray-level": "X-ray level names: not a configuration cell",
     "not-d-block": "a chemistry question (d-electron counts), not a cell check",
     "d-count-out-of-range": "a chemistry question (d-electron counts), not a cell check",

@@ -565,6 +565,8 @@ TERM_READ = [
     case("2[3/2]°2", "2[3/2]°2", id="jK"),
     case("2[3/2]°", "2[3/2]°", id="jK-no-J"),
     case("2[1/2]1", "2[1/2]1", id="jK-even"),
+    # a multiplet written with its J values (unresolved fine structure): the term, no J
+    case("3P2,1,0", "3P", id="multiplet-list"),
 ]
 
 
@@ -584,7 +586,6 @@ TERM_REFUSED = [
     case("3P3", "invalid-term", 2, id="J-too-large"),
     case("5Δ", "term-syntax", 1, id="molecular-Delta"),
     case("3Σ", "term-syntax", 1, id="molecular-Sigma"),
-    case("3P2,1,0", "term-syntax", 3, id="multiplet-list"),
     case("Limit", "term-syntax", 0, id="nist-limit-row"),
 ]
 
