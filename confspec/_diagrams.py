@@ -19,6 +19,7 @@ from typing import TYPE_CHECKING
 
 from ._format import ORDERS, _option, largest_core
 from ._physics import NOBLE_CORES, filling_key, shell_key, subshell_label
+from ._terms import _as_configuration
 
 if TYPE_CHECKING:
     from ._models import Configuration
@@ -76,18 +77,6 @@ class _Layout:
     core: str | None
     core_electrons: int
     rows: tuple[_Row, ...]
-
-
-def _as_configuration(config: Configuration | str) -> Configuration:
-    from ._models import Configuration
-
-    if isinstance(config, Configuration):
-        return config
-    if isinstance(config, str):
-        from ._api import parse
-
-        return parse(config)
-    raise TypeError(f"expected a Configuration or a str, not {type(config).__name__}")
 
 
 def _layout(config: Configuration, order: str, collapse_core: bool) -> _Layout:

@@ -17,30 +17,11 @@ from __future__ import annotations
 
 import math
 
-from ._errors import ConfspecPhysicsError
-from ._physics import LETTER_TO_L, SUBSHELL_LETTERS, subshell_label
+from ._physics import subshell_label, subshell_numbers
 
 __all__ = ["radial_density", "radial_function", "radial_nodes"]
 
 SubshellLike = str | tuple[int, int]
-
-
-def _quantum_numbers(subshell: SubshellLike) -> tuple[int, int]:
-    if isinstance(subshell, tuple):
-        n, l = subshell
-    else:
-        text = subshell.strip()
-        try:
-            n, l = int(text[:-1]), LETTER_TO_L[text[-1:]]
-        except (ValueError, KeyError):
-            raise ConfspecPhysicsError(
-                "invalid-subshell", f"{subshell!r} is not a subshell label such as '2s'",
-                text=str(subshell)) from None
-    if not (isinstance(n, int) and isinstance(l, int)) or n < 1 or not 0 <= l < n \
-            or l >= len(SUBSHELL_LETTERS):
-        raise ConfspecPhysicsError("invalid-subshell", f"n = {n}, l = {l} is not a subshell "
-                                   "(1 ≤ n, 0 ≤ l < n)", text=str(subshell))
-    return n, l
 
 
 def _check_scale(Z: float, a0: float) -> None:
@@ -93,7 +74,7 @@ def radial_function(subshell: SubshellLike, r: float, *, Z: float = 1.0,
     >>> abs(radial_function("2s", 2.0)) < 1e-15   # the 2s node at r = 2 a0 / Z
     True
     """
-    n, l = _quantum_numbers(subshell)
+    n, l = subshell_numbers(subshell)
     _check_scale(Z, a0)
     if r < 0:
         raise ValueError(f"r must not be negative, not {r!r}")
@@ -126,7 +107,7 @@ def radial_nodes(subshell: SubshellLike, *, Z: float = 1.0, a0: float = 1.0) -> 
     >>> [round(x, 4) for x in radial_nodes("3s")]   # (9 ∓ 3√3)/2 a0
     [1.9019, 7.0981]
     """
-    n, l = _quantum_numbers(subshell)
+    n, l = subshell_numbers(subshell)
     _check_scale(Z, a0)
     k, alpha = n - l - 1, 2 * l + 1
     if k == 0:
