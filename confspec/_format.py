@@ -156,8 +156,9 @@ def render(occupancies: Iterable[tuple[int, ...]] | list[tuple[int, int, int, in
         tokens.sort(key=lambda t: (key(t[0], t[1]), t[2], t[3] >= 0))
     else:  # shell order is the model's own order: (n, l, 2j)
         tokens.sort()
-    cache = _TOKEN_TEXT
-    body = fmt.separator.join([cache.get((style, *t)) or _cached_token(fmt, t) for t in tokens])
+    cache = _TOKEN_TEXT_BY_STYLE[fmt.name]
+    body = fmt.separator.join([cache.get(t) or _cached_style_token(fmt, t, cache)
+                               for t in tokens])
     if symbol is None:
         return body
     head = fmt.core.format(symbol=symbol)
@@ -204,16 +205,6 @@ def _split(token: tuple[int, int, int, int]) -> list[tuple[int, int, int, int]]:
     if j2 or l == 0 or e != pauli_limit(l):
         return [token]
     return [(n, l, 2 * l - 1, 2 * l), (n, l, 2 * l + 1, 2 * l + 2)]
-
-
-_TOKEN_TEXT: dict[tuple[Any, ...], str] = {}
-
-
-def _cached_token(fmt: Style, t: tuple[int, ...]) -> str:
-    text = _token(fmt, *t)
-    if len(_TOKEN_TEXT) < 100_000:
-        _TOKEN_TEXT[(fmt.name, *t)] = text
-    return text
 
 
 def _token(fmt: Style, n: int, l: int, j2: int, count: int) -> str:

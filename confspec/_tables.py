@@ -471,17 +471,6 @@ def _term_cell(term: str, j: str | None) -> str | ConfspecError:
 _J_TEXT = re_compile(r"\d+(?:/2)?")
 
 
-def _has_j(term_text: str) -> bool:
-    from ._grammar import parse_term_raw
-    from ._levels import read_term_token
-
-    try:
-        token, position = parse_term_raw(term_text)
-        return read_term_token(token, position, term_text)[1] is not None
-    except ConfspecError:
-        return False
-
-
 def _config_only(text: str, upper: bool) -> Configuration | None:
     try:
         return parse(text, accept_uppercase=upper)
