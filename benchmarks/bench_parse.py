@@ -18,7 +18,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 import confspec
 from benchmarks.realistic import realistic_strings
-from confspec import _api
+from confspec import reading as _api
 
 _TOKEN = re.compile(r"(\d+)([a-z])\^?\{?(\d*)")
 
@@ -61,9 +61,9 @@ def main() -> None:
     cold = best_of(confspec_cold, strings)
     checked = best_of(confspec_validate, strings)
     _api._parse_cached.cache_clear()
-    from confspec._fastpath import fast_configuration
+    from confspec.notation.fastpath import fast_occupancies
 
-    fast_share = sum(fast_configuration(s) is not None for s in strings) / n
+    fast_share = sum(fast_occupancies(s) is not None for s in strings) / n
     print(f"strings: {n} distinct, fast-path share {fast_share:.0%}")
     print(f"baseline re.findall tokenizer : {n / base:12,.0f} strings/s")
     print(f"confspec.parse (cold cache)   : {n / cold:12,.0f} strings/s   "

@@ -6,13 +6,13 @@ from __future__ import annotations
 import random
 
 from confspec import Configuration
-from confspec._physics import madelung_fill
+from confspec.physics import madelung_fill
 
 _SUP = str.maketrans("0123456789", "⁰¹²³⁴⁵⁶⁷⁸⁹")
 
 
 def _spell(config: Configuration, rng: random.Random) -> str:
-    style = rng.choice(["plain", "plain", "plain", "expand", "run", "caret", "unicode", "dotted",
+    style = rng.choice(["plain", "plain", "plain", "expand", "run", "caret", "unicode", "nist-asd",
                         "html", "braces", "filling", "run-core"])
     if style == "plain":
         return config.format()
@@ -24,8 +24,8 @@ def _spell(config: Configuration, rng: random.Random) -> str:
         return config.format(style="caret", order=rng.choice(["shell", "filling"]))
     if style == "unicode":
         return config.format(style="unicode")
-    if style == "dotted":
-        return config.format(style="dotted", core="expand")
+    if style == "nist-asd":
+        return config.format(style="nist-asd", core="expand")
     if style == "html":
         return config.format(style="html")
     if style == "braces":

@@ -3,29 +3,57 @@
 Text in many notations goes in; one frozen, validated model comes out; formatting, JSON,
 chemistry and the data-cleaning adapters are views of that model. Importing the package
 builds no parser: the grammar is compiled on first use.
+
+The rooms: :mod:`confspec.notation` reads and writes text, :mod:`confspec.models` holds the
+values, :mod:`confspec.reading` turns text into models, :mod:`confspec.chemistry` computes,
+:mod:`confspec.levels` reads level designations, :mod:`confspec.diagrams` draws,
+:mod:`confspec.cleaning` runs the row job behind the CLI, SQL and dataframe adapters.
 """
 
 from __future__ import annotations
 
-from ._api import MAX_INPUT_LENGTH, normalize, parse, parse_species, validate
-from ._descriptors import descriptor_table, descriptors
-from ._errors import (
+from . import diagrams as _diagrams  # noqa: F401  (lends the models their pictures)
+from .chemistry import (
+    ConfigurationEnergy,
+    ConfigurationRanking,
+    Excitation,
+    GroundLevel,
+    JKTerm,
+    SCFConvergenceError,
+    SCFDifference,
+    SCFOrbital,
+    SCFResult,
+    ShieldingResult,
+    Term,
+    allowed_j,
+    d_electron_count,
+    delta_scf,
+    descriptor_table,
+    descriptors,
+    effective_charge,
+    excitations,
+    ground_level,
+    ground_state,
+    hund_ground_term,
+    ionization_energy,
+    is_ground_state,
+    lowest_configuration,
+    parse_term,
+    radial_density,
+    radial_function,
+    radial_nodes,
+    scf,
+    term_multiplicities,
+    terms,
+)
+from .errors import (
     ERROR_CODES,
     ConfspecError,
     ConfspecPhysicsError,
     ConfspecSyntaxError,
 )
-from ._ground import (
-    Excitation,
-    GroundLevel,
-    d_electron_count,
-    ground_level,
-    ground_state,
-    is_ground_state,
-)
-from ._hydrogenic import radial_density, radial_function, radial_nodes
-from ._levels import Level, ParentTerm, parse_level, validate_level
-from ._models import (
+from .levels import Level, ParentTerm, parse_level, validate_level
+from .models import (
     CompactConfiguration,
     Configuration,
     ConfigurationRecord,
@@ -33,9 +61,8 @@ from ._models import (
     Species,
     Subshell,
 )
-from ._shielding import ShieldingResult, effective_charge
-from ._terms import JKTerm, Term, allowed_j, hund_ground_term, parse_term, terms
-from ._xray import XrayLevel, xray_level, xray_name
+from .notation import XrayLevel, xray_level, xray_name
+from .reading import MAX_INPUT_LENGTH, normalize, parse, parse_species, validate
 
 __version__ = "0.1.0"
 
@@ -44,6 +71,8 @@ __all__ = [
     "MAX_INPUT_LENGTH",
     "CompactConfiguration",
     "Configuration",
+    "ConfigurationEnergy",
+    "ConfigurationRanking",
     "ConfigurationRecord",
     "ConfspecError",
     "ConfspecPhysicsError",
@@ -54,6 +83,10 @@ __all__ = [
     "JKTerm",
     "Level",
     "ParentTerm",
+    "SCFConvergenceError",
+    "SCFDifference",
+    "SCFOrbital",
+    "SCFResult",
     "ShieldingResult",
     "Species",
     "Subshell",
@@ -61,13 +94,17 @@ __all__ = [
     "XrayLevel",
     "allowed_j",
     "d_electron_count",
+    "delta_scf",
     "descriptor_table",
     "descriptors",
     "effective_charge",
+    "excitations",
     "ground_level",
     "ground_state",
     "hund_ground_term",
+    "ionization_energy",
     "is_ground_state",
+    "lowest_configuration",
     "normalize",
     "parse",
     "parse_level",
@@ -76,9 +113,15 @@ __all__ = [
     "radial_density",
     "radial_function",
     "radial_nodes",
+    "scf",
+    "term_multiplicities",
     "terms",
     "validate",
     "validate_level",
     "xray_level",
     "xray_name",
 ]
+
+
+def __dir__() -> list[str]:
+    return sorted(__all__)

@@ -21,7 +21,7 @@ from typing import Any, Literal
 import numpy as np
 import pandas as pd  # type: ignore[import-untyped]
 
-from ._tables import ConfigurationCheck, Outcome, RowJob, cell_text
+from .cleaning import ConfigurationCheck, Outcome, RowJob, cell_text
 
 __all__ = ["ConfspecAccessor", "check", "electron_count", "is_valid", "normalize"]
 

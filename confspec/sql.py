@@ -24,7 +24,7 @@ import sqlite3
 from collections.abc import Callable
 from typing import Any
 
-from ._tables import ConfigurationCheck, Outcome, RowJob, cell_text
+from .cleaning import ConfigurationCheck, Outcome, RowJob, cell_text
 
 __all__ = ["FUNCTIONS", "register"]
 
@@ -35,7 +35,7 @@ FUNCTIONS: dict[str, tuple[int, str]] = {
     "confspec_error_code": (1, "the first problem's code, or NULL when valid"),
     "confspec_electron_count": (1, "the number of electrons, or NULL when invalid"),
     "confspec_format": (2, "the value in a style (plain, caret, unicode, latex, html, "
-                           "dotted), or NULL when invalid or the style is unknown"),
+                           "nist-asd), or NULL when invalid or the style is unknown"),
     "confspec_species_error": (2, "the first problem's code of the configuration checked "
                                   "against a species (electron count included), or NULL"),
 }
@@ -152,7 +152,15 @@ def _register_duckdb(con: Any, impl: _Functions) -> None:
         ("confspec_species_error", impl.species_error, [text, text], text),
     ]
     for name, function, parameters, returns in functions:
-        with contextlib.suppress(Exception):  # not registered yet: DuckDB cannot tell
-            con.remove_function(name)
-        con.create_function(name, function, parameters, returns, null_handling="special",
+        # the Python function takes text; a macro of the public name casts any argument to
+        # text first, so BIGINT, DOUBLE, BLOB ... are read (and flagged) as in sqlite3
+        inner = f"{name}__text"
+        for old in (inner, name):  # `name` itself: a function of an earlier version
+            with contextlib.suppress(Exception):  # not registered yet: DuckDB cannot tell
+                con.remove_function(old)
+        con.create_function(inner, function, parameters, returns, null_handling="special",
                             side_effects=False)
+        names = ["v", "w"][:len(parameters)]
+        cast = ", ".join(f"CAST({n} AS VARCHAR)" for n in names)
+        con.execute(f"CREATE OR REPLACE TEMP MACRO {name}({', '.join(names)}) AS "
+                    f"{inner}({cast})")

@@ -84,7 +84,7 @@ def main() -> int:
 
     status = confspec("check", str(merged), "--column", "configuration",
                       "--species-column", "species", "--report", str(BUILD / "report.csv"),
-                      "--examples", "2")
+                      "--examples", "2", "--overwrite")
     if status == 2:
         return status
     status = confspec("normalize", str(merged), "--column", "configuration",
@@ -115,6 +115,11 @@ def main() -> int:
           "SELECT source_row, species, original, configuration, fixes,\n"
           "       confspec_electron_count(configuration) AS electrons\n"
           "FROM configurations WHERE fixes IS NOT NULL AND status = 'ok'")
+    query(con, "closed shells: a noble-gas configuration is written with the core below it",
+          "SELECT configuration, min(original) AS written_as, count(*) AS rows\n"
+          "FROM configurations WHERE status = 'ok' AND configuration IN\n"
+          "  ('1s2', '[He] 2s2 2p6', '[Ne] 3s2 3p6', '[Ar] 3d10 4s2 4p6', '[Kr] 4d10 5s2 5p6')\n"
+          "GROUP BY configuration ORDER BY confspec_electron_count(configuration)")
     query(con, "cells that are not configurations at all",
           "SELECT source_row, species, configuration, confspec_error_code(configuration) AS code\n"
           "FROM configurations WHERE NOT confspec_is_valid(configuration) LIMIT 4")

@@ -110,7 +110,7 @@ def spelled(canonical: str, style: str) -> str:
                     core_fmt=r"[\mathrm{{{}}}]", gap=r"\,")
     if style == "math":
         return join(core, " ".join(f"{label}$^{{{count}}}$" for label, count in subs))
-    if style == "dotted":
+    if style == "nist-asd":
         return join(core, plain("."), gap=".")
     if style == "middle-dot":
         return join(core, plain("·"), gap="·")
@@ -240,7 +240,7 @@ def rows_for(kind: str, rng: random.Random, records: list[tuple[str, int, str]],
 STYLES = {
     "hand": ["plain", "expanded", "run-together", "run-together-filling",
              "lower-core-run-together", "bare-core", "bare-counts", "comma", "dash", "filling",
-             "parenthesized", "spaced-core", "dotted"],
+             "parenthesized", "spaced-core", "nist-asd"],
     "sheet": ["unicode", "unicode-tight", "plain", "middle-dot", "filling", "expanded"],
     "web": ["caret", "caret-mixed", "html", "latex", "math", "plain", "unicode"],
 }

@@ -151,7 +151,52 @@ def radial_densities(out: Path) -> Path:
     return _save(fig, out / "radial-densities.png")
 
 
-FIGURES = (zeff_outermost, slater_4s_3d, radial_densities)
+# ---------------------------------------------------------------------------- SCF densities
+def scf_radial_densities(out: Path) -> Path:
+    """3d and 4s radial densities: hydrogen (top) beside computed SCF ones (spherically
+    averaged LDA) of K and Fe, with hydrogen-like curves of the same mean radius dashed."""
+    colors = {"3d": "tab:green", "4s": "tab:blue"}
+    fig, axes = plt.subplots(3, 1, figsize=(8.5, 10.2))
+    steps = 1500
+    rs_h = [40.0 * i / steps for i in range(steps + 1)]
+    for label in ("4s", "3d"):
+        axes[0].plot(rs_h, [confspec.radial_density(label, r) for r in rs_h],
+                     color=colors[label], lw=1.8, label=f"{label}, hydrogen (Z = 1)")
+    axes[0].set_title("Hydrogen-like (one electron, Z = 1): 3d lies inside 4s", fontsize=11)
+    axes[0].set_xlim(0, 40)
+    cases = [(axes[1], "K", "[Ar] 4s1", "[Ar] 3d1", 16.0),
+             (axes[2], "Fe", "[Ar] 3d6 4s2", None, 8.0)]
+    for ax, symbol, config, promoted, r_max in cases:
+        ground = confspec.scf(config, species=symbol)
+        excited = confspec.scf(promoted, species=symbol) if promoted else ground
+        for label, result in (("4s", ground), ("3d", excited)):
+            orb = result.orbitals[label]
+            rs = [r for r in result.radii if r <= r_max]
+            where = "" if result is ground else f" in {result.configuration}"
+            ax.plot(rs, [p * p for p in orb.radial[: len(rs)]], color=colors[label], lw=1.9,
+                    label=f"{label} SCF{where}: ⟨r⟩ = {orb.mean_radius_bohr:.2f} bohr")
+            zeff = orb.effective_charge
+            ax.plot(rs, [confspec.radial_density(label, r, Z=zeff) for r in rs],
+                    color=colors[label], lw=1.0, ls="--",
+                    label=f"{label} hydrogen-like, Z = {zeff:.2f} (same ⟨r⟩)")
+        ax.set_xlim(0, r_max)
+        ax.set_title(f"{symbol}: computed (spherically averaged LDA, an approximation), "
+                     f"ground {config}", fontsize=11)
+    for ax in axes:
+        ax.set_ylim(bottom=0)
+        ax.set_xlabel("distance from the nucleus r (bohr)")
+        ax.set_ylabel("$P(r)^2 = r^2 R(r)^2$  (1/bohr)")
+        ax.legend(fontsize=8.5, loc="upper right")
+    axes[1].annotate("4s inner lobes reach into the [Ar] core (penetration);\n"
+                     "3d barely does, so it feels Z ≈ 1 and lies outside 4s",
+                     xy=(0.8, 0.045), xytext=(1.2, 0.26), fontsize=9,
+                     arrowprops={"arrowstyle": "->", "color": "grey"})
+    axes[2].annotate("at Fe the 3d has contracted inside 4s", xy=(0.9, 0.75),
+                     xytext=(2.2, 0.8), fontsize=9,
+                     arrowprops={"arrowstyle": "->", "color": "grey"})
+    return _save(fig, out / "scf-radial-densities.png")
+
+FIGURES = (zeff_outermost, slater_4s_3d, radial_densities, scf_radial_densities)
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -6,14 +6,16 @@ import re
 import xml.etree.ElementTree as ET
 from fractions import Fraction
 from html.parser import HTMLParser
+from pathlib import Path
 
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
+import confspec
 from confspec import Configuration, ConfspecError, hund_ground_term, parse
-from confspec._diagrams import box_diagram_html, box_diagram_svg, box_diagram_text
-from confspec._physics import pauli_limit
+from confspec.diagrams import box_diagram_html, box_diagram_svg, box_diagram_text
+from confspec.physics import pauli_limit
 
 from .property.strategies import configurations, relativistic_configurations
 
@@ -32,7 +34,7 @@ SVG = "{http://www.w3.org/2000/svg}"
                                                        "4s²   [↑↓]\n"
                                                        "3d⁶   [↑↓][↑ ][↑ ][↑ ][↑ ]",
                  id="Fe-filling-order"),
-    pytest.param("1s2 2s2 2p4", {"collapse_core": False}, "1s²   [↑↓]\n"
+    pytest.param("1s2 2s2 2p4", {"core": "expand"}, "1s²   [↑↓]\n"
                                                           "2s²   [↑↓]\n"
                                                           "2p⁴   [↑↓][↑ ][↑ ]", id="O"),
     pytest.param("1s2 2s2 2p4", {}, "[He]  closed core, 2 electrons\n"
@@ -41,7 +43,9 @@ SVG = "{http://www.w3.org/2000/svg}"
     pytest.param("1s2 2s2 2p3", {"charset": "ascii"}, "[He]  closed core, 2 electrons\n"
                                                       "2s2   [^v]\n"
                                                       "2p3   [^ ][^ ][^ ]", id="N-ascii"),
-    pytest.param("[Ne]", {}, "[Ne]  closed core, 10 electrons", id="core-only"),
+    pytest.param("[Ne]", {}, "[He]  closed core, 2 electrons\n"
+                             "2s²   [↑↓]\n"
+                             "2p⁶   [↑↓][↑↓][↑↓]", id="core-only"),
     pytest.param("[Xe] 4f14 5d10 6s2", {}, "[Xe]  closed core, 54 electrons\n"
                                            "4f¹⁴  [↑↓][↑↓][↑↓][↑↓][↑↓][↑↓][↑↓]\n"
                                            "5d¹⁰  [↑↓][↑↓][↑↓][↑↓][↑↓]\n"
@@ -130,10 +134,11 @@ def _read_text_diagram(text: str) -> Configuration:
     return parse(" ".join(tokens))
 
 
-@given(configurations(), st.sampled_from(["shell", "filling"]), st.booleans())
+@given(configurations(), st.sampled_from(["shell", "filling"]),
+       st.sampled_from(["condense", "expand"]))
 def test_the_text_diagram_reads_back_to_the_same_configuration(
-        config: Configuration, order: str, collapse_core: bool) -> None:
-    assert _read_text_diagram(config.boxes(order=order, collapse_core=collapse_core)) == config
+        config: Configuration, order: str, core: str) -> None:
+    assert _read_text_diagram(config.boxes(order=order, core=core)) == config
 
 
 @given(relativistic_configurations(), st.sampled_from(["shell", "filling"]))
@@ -229,3 +234,80 @@ def test_notebook_html_shows_the_canonical_text_and_the_boxes() -> None:
     html = config._repr_html_()
     assert config.format(style="html") in html
     assert box_diagram_html(config) in html
+
+
+# -- pictures that fit (every subshell up to g: 9 boxes) --------------------------------
+LONGEST_ROWS = ["[Xe] 4f7 5d1 6s2", "[Og] 5g9 8s2", "[Og] 5g18",
+                "[Xe] 4f14 5d10 6s2 6p1/2^2 6p3/2^1", "[Rn] 5f14 6d10 7s2 7p6 8s2 5g1",
+                "1s2 2s2 2p6 3s2 3p6 3d10 4s2 4p6 4d10 4f14 5s2 5p6 5d10 5f14 5g18"]
+
+
+@pytest.mark.parametrize("text", LONGEST_ROWS)
+def test_the_svg_is_as_wide_as_its_widest_line(text: str) -> None:
+    import re
+
+    from confspec.diagrams import _text_width
+
+    config = confspec.parse(text)
+    svg = config.boxes("svg")
+    width = float(re.search(r'width="([0-9.]+)"', svg).group(1))  # type: ignore[union-attr]
+    right_edges = [float(x) + float(w) for x, w in
+                   re.findall(r'<rect x="([0-9.]+)" y="[0-9.]+" width="([0-9.]+)"', svg)]
+    assert max(right_edges) <= width
+    caption = config.format(style="unicode")
+    assert _text_width(caption, 16, bold=True) <= width
+
+
+def test_the_html_view_is_an_inline_block_as_wide_as_its_rows() -> None:
+    html = confspec.parse("[Og] 5g9 8s2").boxes("html")
+    assert 'class="confspec-boxes" style="display:inline-block;max-width:100%;' \
+           'overflow-x:auto' in html
+    assert html.count("white-space:nowrap") == 3  # the core line and two rows never wrap
+
+
+@pytest.mark.slow  # starts a browser
+def test_the_views_fit_their_containers_in_a_real_browser(tmp_path: Path) -> None:
+    import json
+    import shutil
+    import subprocess
+
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    if browser is None:
+        pytest.skip("no headless Chromium here (Debian package 'chromium')")
+    cells = []
+    for theme, colour, background in (("light", "#111", "#fff"), ("dark", "#eee", "#1e1e1e")):
+        for text in LONGEST_ROWS:
+            config = confspec.parse(text)
+            for view in (config._repr_html_(), config._repr_svg_()):
+                # a shrink-to-fit box that clips, as notebook output areas are (flex items)
+                cells.append(f'<div style="display:flex;width:760px"><div class="cell" '
+                             f'data-theme="{theme}" style="color:{colour};background:'
+                             f'{background};flex:0 1 auto;overflow:hidden">{view}</div></div>')
+    script = """<script>
+      const out = [];
+      for (const cell of document.querySelectorAll('.cell')) {
+        const view = cell.firstElementChild;
+        const inner = view.querySelector('.confspec-boxes') || view;
+        const box = inner.getBoundingClientRect();
+        let right = box.right;
+        for (const el of inner.querySelectorAll('*')) {
+          right = Math.max(right, el.getBoundingClientRect().right);
+        }
+        out.push([cell.dataset.theme, box.right, right, inner.scrollWidth, inner.clientWidth]);
+      }
+      document.body.setAttribute('data-result', JSON.stringify(out));
+    </script>"""
+    page = tmp_path / "boxes.html"
+    page.write_text("<html><body>" + "".join(cells) + script + "</body></html>", "utf-8")
+    done = subprocess.run(
+        [browser, "--headless", "--no-sandbox", "--disable-gpu", "--no-first-run",
+         "--disable-background-networking", "--disable-component-update", "--disable-sync",
+         f"--user-data-dir={tmp_path / 'profile'}", "--dump-dom", page.as_uri()],
+        capture_output=True, text=True, timeout=120, check=True)
+    found = re.search(r'data-result="([^"]*)"', done.stdout)
+    assert found is not None, done.stdout[-500:]
+    result = json.loads(found.group(1).replace("&quot;", '"'))
+    assert len(result) == 4 * len(LONGEST_ROWS)
+    for theme, container_right, content_right, scroll, client in result:
+        assert content_right <= container_right + 0.01, (theme, container_right, content_right)
+        assert scroll <= client, (theme, scroll, client)

@@ -32,7 +32,7 @@ import pytest
 
 import confspec
 
-from . import test_parse, test_species
+from . import test_reading, test_species
 
 ROOT = Path(__file__).resolve().parent.parent
 DOCS = ROOT / "docs"
@@ -221,7 +221,7 @@ def _shown(cell: str) -> str:
 
 def test_the_notation_table_is_the_parse_test_table() -> None:
     """Every row of the parse tests is on the site, and every site row parses as shown."""
-    tests = test_parse
+    tests = test_reading
     expected = [(str(v[0]), "[Ne] 3s1") for v in
                 _param_values(tests.test_every_spelling_gives_the_same_value)]
     expected += [(str(v[0]), str(v[1])) for v in _param_values(tests.test_canonical_form)]
@@ -293,7 +293,8 @@ def test_the_figures_script_draws_every_plot(tmp_path: Path) -> None:
     with contextlib.redirect_stdout(io.StringIO()):
         assert module.main(["--out", str(tmp_path)]) == 0
     names = sorted(p.name for p in tmp_path.iterdir())
-    assert names == ["radial-densities.png", "slater-4s-3d.png", "zeff-outermost.png"]
+    assert names == ["radial-densities.png", "scf-radial-densities.png", "slater-4s-3d.png",
+                     "zeff-outermost.png"]
     for path in tmp_path.iterdir():
         head = path.read_bytes()[:24]
         assert head[:8] == b"\x89PNG\r\n\x1a\n"

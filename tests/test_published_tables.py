@@ -27,7 +27,7 @@ import pytest
 import confspec
 from confspec import ConfspecError
 
-from .test_cli import cli, read_csv
+from .cli.runner import cli, read_csv
 
 HERE = Path(__file__).parent / "published"
 

@@ -5,8 +5,8 @@ from __future__ import annotations
 import pytest
 
 from confspec import Configuration, Subshell, parse, parse_species
-from confspec._elements import all_elements
-from confspec._physics import NOBLE_CORES, SUBSHELL_LETTERS, pauli_limit
+from confspec.data.elements import all_elements
+from confspec.physics import NOBLE_CORES, SUBSHELL_LETTERS, pauli_limit
 
 periodictable = pytest.importorskip("periodictable")
 ase_data = pytest.importorskip("ase.data")

@@ -20,15 +20,17 @@ def test_installed_wheel_parses(tmp_path: Path) -> None:
                     str(ROOT)], check=True)
     (wheel,) = dist.glob("confspec-*.whl")
     names = zipfile.ZipFile(wheel).namelist()
-    assert "confspec/grammar/configuration.lark" in names
+    assert "confspec/notation/configuration.lark" in names
     assert "confspec/py.typed" in names
     assert "confspec/data/elements.csv" in names
 
+    # a fresh venv without a pip of its own (bootstrapping one costs seconds): this pip
+    # installs the wheel and its dependencies into it (pip's --python, pip >= 22.3)
     env = tmp_path / "venv"
-    venv.create(env, with_pip=True)
+    venv.create(env, with_pip=False)
     python = env / "bin" / "python"
-    subprocess.run([str(python), "-m", "pip", "install", "-q", "--disable-pip-version-check",
-                    str(wheel)], check=True)
+    subprocess.run([sys.executable, "-m", "pip", "--python", str(python), "install", "-q",
+                    "--disable-pip-version-check", str(wheel)], check=True)
     script = (
         "import confspec, pathlib\n"
         "assert 'site-packages' in confspec.__file__, confspec.__file__\n"

@@ -192,11 +192,13 @@ def error_examples() -> dict[str, tuple[str, tuple[Any, ...], dict[str, Any]]]:
     # (test file, test, function called, the code when the table has no code column)
     tables: list[tuple[str, str, str, str | None]] = [
         ("test_species.py", "test_species_errors", "parse_species", None),
-        ("test_terms.py", "test_term_errors_have_codes_and_positions", "parse_term", None),
-        ("test_ground.py", "test_d_count_errors", "d_electron_count", None),
-        ("test_shielding.py", "test_shielding_errors", "effective_charge", None),
-        ("test_levels.py", "test_consistency_problems", "validate_level", None),
-        ("test_levels.py", "test_unknown_xray_levels", "xray_level", "unknown-xray-level"),
+        ("chemistry/test_terms.py", "test_term_errors_have_codes_and_positions", "parse_term",
+         None),
+        ("chemistry/test_ground.py", "test_d_count_errors", "d_electron_count", None),
+        ("chemistry/test_shielding.py", "test_shielding_errors", "effective_charge", None),
+        ("levels/test_designations.py", "test_consistency_problems", "validate_level", None),
+        ("levels/test_designations.py", "test_unknown_xray_levels", "xray_level",
+         "unknown-xray-level"),
     ]
     for file, test, function, fixed in tables:
         if not (TESTS / file).exists() or not hasattr(confspec, function):
@@ -259,16 +261,16 @@ def _configuration_rows(path: Path, test: str, expected: Callable[[tuple[Any, ..
 
 def render_spellings(_: str) -> str:
     """Input → canonical output, from the parse tests (every row re-checked here)."""
-    sodium = _configuration_rows(TESTS / "test_parse.py",
+    sodium = _configuration_rows(TESTS / "test_reading.py",
                                  "test_every_spelling_gives_the_same_value",
                                  lambda _values: "[Ne] 3s1")
-    canonical = _configuration_rows(TESTS / "test_parse.py", "test_canonical_form",
+    canonical = _configuration_rows(TESTS / "test_reading.py", "test_canonical_form",
                                     lambda values: str(values[1]))
     return table(["input", "canonical output", "what it shows"], sodium + canonical)
 
 
 def render_relativistic_spellings(_: str) -> str:
-    path = TESTS / "test_relativistic.py"
+    path = TESTS / "notation" / "test_relativistic.py"
     rows = _configuration_rows(path, "test_spellings_of_one_relativistic_configuration",
                                lambda _values: "2p1/2^2 2p3/2^3")
     return table(["input", "canonical output", "what it shows"], rows)
@@ -288,7 +290,7 @@ def render_species_spellings(_: str) -> str:
 
 def render_term_spellings(_: str) -> str:
     rows = []
-    for (text, canonical), test_id in test_params(TESTS / "test_terms.py",
+    for (text, canonical), test_id in test_params(TESTS / "chemistry" / "test_terms.py",
                                                   "test_term_spellings"):
         got = str(confspec.parse_term(text))
         if got != canonical:
@@ -300,7 +302,8 @@ def render_term_spellings(_: str) -> str:
 def render_level_spellings(_: str) -> str:
     """Level designations, from the level tests (every row re-checked here)."""
     rows = []
-    for (text, config, term, J, parents), test_id in test_params(TESTS / "test_levels.py",
+    levels = TESTS / "levels" / "test_designations.py"
+    for (text, config, term, J, parents), test_id in test_params(levels,
                                                                  "test_level_spellings"):
         level = confspec.parse_level(text)
         if level.configuration != confspec.parse(config) or str(level.term) != term \
@@ -406,7 +409,8 @@ def render_styles(_: str) -> str:
     """Output styles, from the formatting tests (iron, [Ar] 3d6 4s2)."""
     iron = confspec.parse("[Ar] 3d6 4s2")
     rows = []
-    for (options, text), test_id in test_params(TESTS / "test_format.py", "test_styles"):
+    for (options, text), test_id in test_params(TESTS / "notation" / "test_render.py",
+                                                "test_styles"):
         got = iron.format(**options)
         if got != text:
             raise DocsError(f"format({options}) gives {got!r}, not {text!r}")
@@ -417,14 +421,14 @@ def render_styles(_: str) -> str:
 
 def render_madelung_exceptions(_: str) -> str:
     """Neutral atoms whose shipped ground configuration is not the Madelung filling."""
-    from confspec._physics import madelung_fill
+    from confspec.physics import madelung_fill
 
     rows = []
     for Z in range(1, 119):
         level = confspec.ground_level(confspec.Element.model_validate(Z).symbol)
         rule = confspec.Configuration.from_occupancies(madelung_fill(Z))
         if level.configuration != rule:
-            moved = ", ".join(str(e) for e in level.configuration.excitations(rule))
+            moved = ", ".join(str(e) for e in confspec.excitations(level.configuration, rule))
             rows.append((str(Z), level.species.symbol, code(str(level.configuration)),
                          code(str(rule)), html.escape(moved), level.provenance))
     return table(["Z", "atom", "ground configuration", "Madelung filling",
@@ -441,7 +445,7 @@ def render_clementi_raimondi(_: str) -> str:
         if fitted is None:
             continue
         slater = values["zeff_slater"]
-        from confspec._physics import subshell_label
+        from confspec.physics import subshell_label
 
         label = subshell_label(int(values["outer_n"] or 0), int(values["outer_l"] or 0))
         rows.append((str(Z), symbol, label, f"{fitted:.4f}", f"{slater:.2f}",
@@ -451,7 +455,7 @@ def render_clementi_raimondi(_: str) -> str:
 
 
 def render_descriptors(_: str) -> str:
-    from confspec._descriptors import DESCRIPTOR_DOCS
+    from confspec.chemistry.descriptors import DESCRIPTOR_DOCS
 
     return table(["key", "meaning"], [(code(k), html.escape(v))
                                       for k, v in DESCRIPTOR_DOCS.items()])
@@ -461,7 +465,7 @@ def render_sources(_: str) -> str:
     """Every source named in the shipped data tables: how many rows cite it, with which
     status, and how many of those say in their note that they were transcribed from
     memory (and are therefore checked by tests against an independent oracle)."""
-    from confspec._data import read_table
+    from confspec.data import read_table
 
     rows = []
     for path in sorted((ROOT / "confspec" / "data").glob("*.csv")):
@@ -492,7 +496,7 @@ def render_boxes(argument: str) -> str:
     kwargs: dict[str, Any] = {}
     for item in options.split():
         key, _, value = item.partition("=")
-        kwargs[key] = value if key != "collapse_core" else value == "true"
+        kwargs[key] = value
     svg = confspec.parse(text.strip()).boxes("svg", **kwargs)
     return f'<div class="confspec-boxes">{svg}</div>'
 

@@ -5,8 +5,8 @@ from __future__ import annotations
 from hypothesis import strategies as st
 
 from confspec import Configuration
-from confspec._format import CORE_MODES, ORDERS, STYLES
-from confspec._physics import SUBSHELL_LETTERS, pauli_limit
+from confspec.notation.render import CORE_MODES, ORDERS, STYLES
+from confspec.physics import SUBSHELL_LETTERS, pauli_limit
 
 
 @st.composite
@@ -21,7 +21,7 @@ def configurations(draw: st.DrawFn, max_n: int = 8, max_l: int = 4) -> Configura
 @st.composite
 def ground_like(draw: st.DrawFn) -> Configuration:
     """Configurations shaped like real atoms: a filled prefix of the Madelung order."""
-    from confspec._physics import madelung_fill
+    from confspec.physics import madelung_fill
 
     z = draw(st.integers(1, 118))
     config = Configuration.from_occupancies(madelung_fill(z))

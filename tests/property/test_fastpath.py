@@ -8,9 +8,9 @@ from hypothesis import example, given
 from hypothesis import strategies as st
 
 from confspec import Configuration, ConfspecError
-from confspec._fastpath import fast_configuration, fast_raw
-from confspec._grammar import parse_configuration_raw
-from confspec._resolve import resolve
+from confspec.notation.fastpath import fast_occupancies, fast_raw
+from confspec.notation.grammar import parse_configuration_raw
+from confspec.notation.resolve import resolve
 
 from .strategies import configurations
 
@@ -37,7 +37,12 @@ def _full_path(text: str) -> Configuration | None:
         occupancies, errors = resolve(parse_configuration_raw(text), text)
     except ConfspecError:
         return None
-    return None if errors else Configuration._trusted(occupancies)
+    return None if errors else Configuration.from_checked(occupancies)
+
+
+def fast_configuration(text: str) -> Configuration | None:
+    occupancies = fast_occupancies(text)
+    return None if occupancies is None else Configuration.from_shell_order(occupancies)
 
 
 def _agree(text: str) -> None:
@@ -69,7 +74,7 @@ def test_fast_path_takes_canonical_text(config: Configuration) -> None:
     _agree(config.format(style="caret", core="expand"))
     _agree(config.format(style="unicode", order="filling"))
     _agree(config.format(style="html"))
-    _agree(config.format(style="dotted"))
+    _agree(config.format(style="nist-asd"))
     _agree(config.format(core="expand").replace(" ", ""))
 
 

@@ -6,8 +6,8 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from confspec import Configuration, Species, ground_state, parse
-from confspec._elements import all_elements
-from confspec._format import ORDERS, STYLES
+from confspec.data.elements import all_elements
+from confspec.notation.render import ORDERS, STYLES
 
 from .strategies import configurations, ground_like
 
@@ -58,8 +58,8 @@ def test_holes_against_a_species_read_back(kind: Species, data: st.DataObject, s
     config = data.draw(near(ground_state(kind)) | configurations(max_n=7, max_l=3))
     if not config.subshells:
         return
-    text = config.format(style, core=core, order=order, holes_relative_to=kind)
-    assert parse(text, species=kind) == config, text
+    text = config.format(style, core=core, order=order, reference=kind)
+    assert parse(text, reference=kind) == config, text
 
 
 @given(ground_like(), st.data(), st.sampled_from(STYLES), st.sampled_from(ORDERS))
@@ -68,7 +68,7 @@ def test_holes_against_a_configuration_read_back_with_their_core(
     config = data.draw(near(reference))
     if not config.subshells:
         return
-    text = config.format(style, core="condense", order=order, holes_relative_to=reference)
+    text = config.format(style, core="condense", order=order, reference=reference)
     assert parse(text) == config, text
 
 
@@ -76,9 +76,9 @@ def test_holes_against_a_configuration_read_back_with_their_core(
 def test_differences_against_a_configuration_resolve_back(
         reference: Configuration, data: st.DataObject, style: str, order: str) -> None:
     # core="expand" writes only the differences; against a Configuration reference no public
-    # call reads them back, so resolve them with that reference the way parse(species=) does
-    from confspec._api import _raw
-    from confspec._resolve import resolve
+    # call reads them back, so resolve them with that reference the way parse(reference=) does
+    from confspec.notation.read import raw_configuration as _raw
+    from confspec.notation.resolve import resolve
 
     base = data.draw(near(reference))
     if not base.subshells:
@@ -86,8 +86,8 @@ def test_differences_against_a_configuration_resolve_back(
     config = data.draw(near(base))  # the reference itself may be written with j subshells
     if not config.subshells:
         return
-    text = config.format(style, core="expand", order=order, holes_relative_to=base)
+    text = config.format(style, core="expand", order=order, reference=base)
     quads = [(s.n, s.l, s.j2, s.electrons) for s in base.subshells]
     occupancies, errors = resolve(_raw(text), text, reference=quads)
     assert not errors
-    assert Configuration._trusted(occupancies) == config, text
+    assert Configuration.from_checked(occupancies) == config, text

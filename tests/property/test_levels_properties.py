@@ -16,9 +16,9 @@ from confspec import (
     parse_level,
     validate_level,
 )
-from confspec._grammar import grammar_text, parse_term_raw
-from confspec._levels import read_term_token
-from confspec._terms import TERM_LETTERS, term_keys
+from confspec.chemistry.terms import TERM_LETTERS, term_keys
+from confspec.levels.designations import read_term_token
+from confspec.notation.grammar import grammar_text, parse_term_raw
 
 from .strategies import configurations
 

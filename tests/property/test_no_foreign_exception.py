@@ -16,7 +16,7 @@ from confspec import (
     validate,
     validate_level,
 )
-from confspec._grammar import grammar_text
+from confspec.notation.grammar import grammar_text
 
 ALPHABET = st.sampled_from([*"0123456789spdfghikSPDF[]()^{}<>/$-−+.,;·_ \t⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻°*?:=",
                             "[Ar]", "[Ne]", "<sup>", "</sup>", "Fe", "III", "\\,", "Âº", "â",
@@ -26,7 +26,7 @@ notation_like = st.lists(ALPHABET, max_size=30).map("".join)
 
 def _only_confspec_errors(text: str) -> None:
     for call in (parse, normalize, parse_species, parse_term, parse_level,
-                 lambda t: parse(t, accept_uppercase=True), lambda t: parse(t, species="Cu")):
+                 lambda t: parse(t, accept_uppercase=True), lambda t: parse(t, reference="Cu")):
         try:
             call(text)
         except ConfspecError as err:
