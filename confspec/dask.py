@@ -19,6 +19,7 @@ from typing import Any
 import pandas as pd  # type: ignore[import-untyped]
 
 from . import pandas as _cp
+from .errors import ConfspecSyntaxError
 
 __all__ = ["check", "normalize"]
 
@@ -54,6 +55,16 @@ def _object_meta(index: Any, names: tuple[str, ...]) -> pd.DataFrame:
                         index=index[:0])
 
 
+def _require_columns(frame: Any, *names: str | None) -> None:
+    """Name a missing column in our words (code ``unknown-column``) before any work."""
+    have = list(frame.columns)
+    for name in names:
+        if name is not None and name not in have:
+            raise ConfspecSyntaxError(
+                "unknown-column", f"the frame has no column {name!r}; it has: "
+                + ", ".join(map(str, have)), text=str(name))
+
+
 def check(frame: Any, column: str, *, species_column: str | None = None,
           **options: Any) -> Any:
     """A Dask dataframe of status, code, message, normalized, fixes, aligned with ``frame``.
@@ -61,6 +72,7 @@ def check(frame: Any, column: str, *, species_column: str | None = None,
     ``options`` are those of :func:`confspec.pandas.check` (strict, accept_uppercase,
     fill_core, repair_text, style, core, order).
     """
+    _require_columns(frame, column, species_column)
     meta = _object_meta(frame._meta.index, _REPORT)
     return frame.map_partitions(_check_partition, column, species_column, dict(options),
                                 meta=meta)
@@ -73,6 +85,7 @@ def normalize(frame: Any, column: str, *, species_column: str | None = None,
 
     Unreadable values keep their text and are flagged in the status column.
     """
+    _require_columns(frame, column, species_column)
     names = (status_column, code_column, fixes_column)
     clash = [n for n in names if n in frame.columns]
     if clash:

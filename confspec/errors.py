@@ -47,6 +47,9 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
     ("too-long", "syntax", "The text is longer than the input limit (MAX_INPUT_LENGTH, "
      "4,096 characters), which every function that reads text checks first.",
      "A configuration is short; the cell probably holds something else."),
+    ("unknown-column", "syntax",
+     "A column named for the check is not in the dataframe.",
+     "Name a column the frame has (the message lists them)."),
     ("number-too-large", "syntax",
      "A number that drives work is beyond its bound: a principal number n above 999 (above "
      "100 for the hydrogen-like functions), or a term's multiplicity, L, J or K above 999.",

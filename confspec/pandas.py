@@ -58,11 +58,30 @@ def _as_series(values: Any, like: pd.Series | None = None) -> pd.Series:
     return pd.Series(values, dtype=object)
 
 
+def _hashable_cell(value: Any) -> Any:
+    """A list, dict or set cell as the text the CLI reads for it, so it is flagged like any
+    other cell that is not a configuration instead of raising."""
+    try:
+        hash(value)
+    except TypeError:
+        if isinstance(value, set | frozenset):
+            value = sorted(map(str, value))
+        return cell_text(value) if isinstance(value, dict | list) else str(value)
+    return value
+
+
+def _factorize(values: pd.Series) -> tuple[np.ndarray[Any, Any], Any]:
+    try:
+        return pd.factorize(values, use_na_sentinel=True)  # type: ignore[no-any-return]
+    except TypeError:  # an unhashable cell (a list, dict or set)
+        return pd.factorize(values.map(_hashable_cell), use_na_sentinel=True)  # type: ignore[no-any-return]
+
+
 def _outcomes(values: pd.Series, species: Any, check_: ConfigurationCheck,
               cache_size: int) -> tuple[np.ndarray[Any, Any], list[Outcome]]:
     """Codes (one per row) into a list of outcomes (one per distinct input)."""
     job = _job(check_, cache_size)
-    codes, uniques = pd.factorize(values, use_na_sentinel=True)
+    codes, uniques = _factorize(values)
     texts = [cell_text(v) for v in uniques]
     if species is None:
         found = job.outcomes([(t,) for t in texts])
@@ -71,7 +90,7 @@ def _outcomes(values: pd.Series, species: Any, check_: ConfigurationCheck,
     kinds = _as_series(species, values)
     if len(kinds) != len(values):
         raise ValueError(f"species has {len(kinds)} values for {len(values)} configurations")
-    s_codes, s_uniques = pd.factorize(kinds, use_na_sentinel=True)
+    s_codes, s_uniques = _factorize(kinds)
     width = len(s_uniques) + 1
     pairs = (codes.astype(np.int64) + 1) * width + (s_codes.astype(np.int64) + 1)
     pair_codes, pair_uniques = pd.factorize(pairs)

@@ -53,7 +53,7 @@ def test_normalize_on_a_two_worker_cluster(client: Any) -> None:
     assert result["status"].tolist() == expected["status"].tolist()
     assert plain(result["fixes"])[:6] == [None, None, None, "fill-core:[Ar]", None, None]
     assert plain(result["configuration"])[:6] == [
-        "[Ar] 3d6 4s2", "1s2 2s2 2p7", None, "[Ar] 3d6 4s2", "[Ne]", "[Xx] 3s2"]
+        "[Ar] 3d6 4s2", "1s2 2s2 2p7", None, "[Ar] 3d6 4s2", "[He] 2s2 2p6", "[Xx] 3s2"]
     # the work ran on both workers' processes: each partition's task has a worker
     assert set(client.has_what()) and len(client.scheduler_info()["workers"]) == 2
 

@@ -128,6 +128,7 @@ NOT_ROW_CODES = {
     "series-limit": "level columns: the 'Limit' row of a level table, reached in "
                     "tests/test_published_tables.py",
     "unknown-xray-level": "X-ray level names: not a configuration cell",
+    "unknown-column": "a dataframe adapter's missing column: tests/adapters/test_cells.py",
     "number-too-large": "an n above 999: reached in tests/notation/test_bounds.py",
     "out-of-range": "a numeric argument of the hydrogen-like functions, not a cell",
     "scf-not-converged": "the SCF solver (confspec.scf), not a cell check",
