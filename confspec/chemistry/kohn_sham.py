@@ -108,6 +108,14 @@ class SCFNotConverged(Exception):  # noqa: N818 (the name says what happened)
         self.residual = residual
         self.iterations = iterations
 
+    def __reduce__(self) -> tuple[object, ...]:
+        # keyword-only arguments: pickle (worker processes) rebuilds through this
+        return (_rebuild_not_converged, (self.reason, self.residual, self.iterations))
+
+
+def _rebuild_not_converged(reason: str, residual: float, iterations: int) -> SCFNotConverged:
+    return SCFNotConverged(reason, residual=residual, iterations=iterations)
+
 
 class _TooDiffuse(SCFNotConverged):
     """Internal: a bound orbital reaches the end of the grid; solve_atom retries larger."""

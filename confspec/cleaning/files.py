@@ -17,10 +17,12 @@ import os
 import re
 import secrets
 import shutil
+import signal
 import socket
 import stat
 import sys
 import tempfile
+import threading
 import time
 from collections.abc import Iterator
 from typing import IO, Any, cast
@@ -456,6 +458,24 @@ def stale_temporary_files(path: str) -> list[str]:
     return found
 
 
+_STOP_SIGNALS = tuple(getattr(signal, n) for n in ("SIGINT", "SIGTERM", "SIGHUP")
+                      if hasattr(signal, n))
+
+
+@contextlib.contextmanager
+def _signals_deferred() -> Iterator[None]:
+    """Hold SIGINT, SIGTERM and SIGHUP for a few statements (they are delivered after)."""
+    mask = getattr(signal, "pthread_sigmask", None)
+    if mask is None or threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = mask(signal.SIG_BLOCK, _STOP_SIGNALS)
+    try:
+        yield
+    finally:
+        mask(signal.SIG_SETMASK, previous)
+
+
 class _Target:
     """Where a file sink's bytes go, named in every message as the user gave it.
 
@@ -490,14 +510,19 @@ class _Target:
         for _ in range(100):
             temp = os.path.join(directory, f".{os.path.basename(real)}.{_HOST}-{os.getpid()}-"
                                            f"{secrets.token_hex(4)}.partial")
-            try:
-                fd = os.open(temp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
-            except FileExistsError:
-                continue
-            except OSError as err:
-                raise InputError(f"{path}: cannot write ({err.strerror or err})") from None
-            self.temp = temp
-            _UNFINISHED.add(self)  # removed by abort_unfinished() if the job never gets there
+            with _signals_deferred():  # a stop here must not orphan the file just created
+                # known before it exists: a stop that lands just after os.open still finds it
+                self.temp = temp
+                _UNFINISHED.add(self)  # removed by abort_unfinished() if the job stops first
+                try:
+                    fd = os.open(temp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
+                except FileExistsError:  # our own name (it holds our pid): draw another
+                    self.temp = None
+                    continue
+                except OSError as err:
+                    self.temp = None
+                    _UNFINISHED.discard(self)
+                    raise InputError(f"{path}: cannot write ({err.strerror or err})") from None
             os.close(fd)
             break
         else:  # pragma: no cover - 100 collisions of 32 random bits
@@ -513,9 +538,14 @@ class _Target:
                 raise InputError(f"{self.path}: this stream takes text only")
             raw: IO[bytes] = cast(IO[bytes], io.BufferedWriter(_Unclosed(buffer)))
         else:
-            with self.guard():
+            with self.guard(), _signals_deferred():  # the handle is kept before a stop lands
                 raw = open(self.temp or self.path, "wb")  # noqa: SIM115 - closed by commit
+                self._layers.insert(0, raw)
+                return self._compressed(raw, compressed)
         self._layers.insert(0, raw)
+        return self._compressed(raw, compressed)
+
+    def _compressed(self, raw: IO[bytes], compressed: bool) -> IO[bytes]:
         if compressed:
             raw = cast(IO[bytes], gzip.GzipFile(fileobj=raw, mode="wb"))
             self._layers.insert(0, raw)
