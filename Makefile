@@ -21,11 +21,11 @@ $(VENV)/.demo-installed: pyproject.toml | $(PY)
 # The import contract (layers, no cycles between packages, private names stay private) is a
 # test that also sees imports made inside functions; lint runs it.
 lint: $(VENV)/.dev-installed
-	$(PY) -m ruff check confspec tests benchmarks examples scripts
+	$(PY) -m ruff check confspec _confspec_launch.py tests benchmarks examples scripts
 	$(PY) -m pytest -q -p no:cacheprovider tests/test_architecture.py
 
 typecheck: $(VENV)/.dev-installed
-	$(PY) -m mypy --strict confspec
+	$(PY) -m mypy --strict confspec _confspec_launch.py
 
 # PostgreSQL tests: scripts/postgres-up.sh starts a local server (127.0.0.1 only) and prints
 # its URL, or "unavailable: <reason>", which the tests show when they skip.

@@ -23,6 +23,7 @@ def test_installed_wheel_parses(tmp_path: Path) -> None:
     assert "confspec/notation/configuration.lark" in names
     assert "confspec/py.typed" in names
     assert "confspec/data/elements.csv" in names
+    assert "_confspec_launch.py" in names  # the console script's start-up module
 
     # a fresh venv without a pip of its own (bootstrapping one costs seconds): this pip
     # installs the wheel and its dependencies into it (pip's --python, pip >= 22.3)
@@ -39,3 +40,6 @@ def test_installed_wheel_parses(tmp_path: Path) -> None:
     out = subprocess.run([str(python), "-c", script], check=True, capture_output=True,
                          text=True, cwd=tmp_path)
     assert out.stdout.split() == ["[Ar]", "3d6", "4s2", "[He]", "2s2", "2p5", "3s2", "Fe3+"]
+    command = subprocess.run([str(env / "bin" / "confspec"), "show", "[Ar] 3d6 4s2"],
+                             capture_output=True, text=True, check=False, cwd=tmp_path)
+    assert command.returncode == 0 and "[Ar] 3d6 4s2" in command.stdout, command.stderr

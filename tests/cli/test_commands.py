@@ -7,9 +7,11 @@ import gzip
 import hashlib
 import json
 import os
+import signal
 import sqlite3
 import subprocess
 import sys
+import time
 from pathlib import Path
 
 import pytest
@@ -510,12 +512,48 @@ def test_codes_lists_every_code() -> None:
 # ----------------------------------------------------------------------------- processes
 @pytest.mark.slow
 def test_the_installed_entry_point_runs() -> None:
-    # the console script of pyproject.toml ([project.scripts] confspec = confspec.cli:main)
+    # the console script of pyproject.toml ([project.scripts] confspec = _confspec_launch:run)
     done = cli_process("--version")
     assert (done.returncode, done.stdout, done.stderr) == (
         0, f"confspec {confspec.__version__}\n", ""), COMMAND
     codes = cli_process("codes")
     assert codes.returncode == 0 and codes.stdout == cli("codes").stdout
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(not Path("/proc/self/status").exists(), reason="needs Linux /proc")
+@pytest.mark.parametrize("delay", [0.0, 0.01, 0.03, 0.1, 0.2, 0.4])
+@pytest.mark.parametrize("sig", [signal.SIGINT, signal.SIGTERM, signal.SIGHUP])
+def test_a_signal_during_start_up_stops_with_one_line(sig: signal.Signals, delay: float) -> None:
+    # issue 11, point 4: the console script's launcher handles the three stop signals before
+    # confspec is imported, so a signal at any moment of start-up ends the run with one line.
+    # The moments count from the launcher's first step, seen in /proc as SIGHUP being caught
+    # (Python itself never catches it); the interpreter's own start-up before that, a few
+    # milliseconds, is out of any program's hands.
+    process = subprocess.Popen([*COMMAND, "codes"], stdout=subprocess.PIPE,
+                               stderr=subprocess.PIPE, text=True, stdin=subprocess.DEVNULL)
+    deadline = time.monotonic() + 30
+    while time.monotonic() < deadline and not _catches(process.pid, signal.SIGHUP):
+        time.sleep(0.0005)
+    time.sleep(delay)
+    process.send_signal(sig)
+    out, err = process.communicate(timeout=60)
+    assert "Traceback" not in err, err
+    if process.returncode == 0:  # the command finished first
+        assert out == cli("codes").stdout
+    else:
+        assert process.returncode == 128 + sig, (process.returncode, err)
+        assert err.count("\n") == 1 and f"stopped by {sig.name}" in err, err
+
+
+def _catches(pid: int, sig: signal.Signals) -> bool:
+    """Whether process ``pid`` has a handler for ``sig`` (the SigCgt mask of /proc)."""
+    try:
+        status = Path(f"/proc/{pid}/status").read_text()
+    except OSError:
+        return True  # it has ended: nothing to wait for
+    mask = next(line.split()[1] for line in status.splitlines() if line.startswith("SigCgt"))
+    return bool(int(mask, 16) >> (int(sig) - 1) & 1)
 
 
 @pytest.mark.slow
