@@ -137,6 +137,10 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
      "terms() was asked to list the terms of a configuration that has more than 200,000 of "
      "them (several open f or g subshells).",
      "Use term_multiplicities() for the count of each (2S+1, L)."),
+    ("jj-configuration", "physics",
+     "An LS-coupling function (terms, hund_ground_term) was given a configuration with nlj "
+     "subshells ('2p3/2^1'), whose j would be lost by LS coupling.",
+     "Use confspec.jj_levels() for the J levels, or write the subshells as nl."),
     # -- level designations: configuration + term + J ------------------------------------
     ("term-not-allowed", "physics",
      "The term is not an LS term of the configuration ('2p2 1P'), or cannot be reached by "

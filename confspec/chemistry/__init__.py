@@ -38,6 +38,7 @@ from .terms import (
     Term,
     allowed_j,
     hund_ground_term,
+    jj_levels,
     parse_term,
     term_multiplicities,
     terms,
@@ -47,6 +48,7 @@ __all__ = ["ConfigurationEnergy", "ConfigurationRanking", "Excitation", "GroundL
            "SCFConvergenceError", "SCFDifference", "SCFOrbital", "SCFResult", "ShieldingResult",
            "Term", "allowed_j", "d_electron_count", "delta_scf", "descriptor_table",
            "descriptors", "effective_charge", "excitations", "ground_level", "ground_state",
-           "hund_ground_term", "ionization_energy", "is_ground_state", "lowest_configuration",
-           "parse_term", "radial_density", "radial_function", "radial_nodes", "scf",
+           "hund_ground_term", "ionization_energy", "is_ground_state", "jj_levels",
+           "lowest_configuration", "parse_term", "radial_density", "radial_function",
+           "radial_nodes", "scf",
            "term_multiplicities", "terms"]

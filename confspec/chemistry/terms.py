@@ -37,8 +37,8 @@ from ..reading import as_configuration
 if TYPE_CHECKING:
     from ..models import Configuration
 
-__all__ = ["TERM_LETTERS", "JKTerm", "Term", "allowed_j", "hund_ground_term", "parse_term",
-           "terms"]
+__all__ = ["TERM_LETTERS", "JKTerm", "Term", "allowed_j", "hund_ground_term", "jj_levels",
+           "parse_term", "terms"]
 
 #: Term letters for L = 0, 1, 2, ... (j is skipped). Larger L is written ``[L]``, e.g. ``2[17]``.
 TERM_LETTERS = "SPDFGHIKLMNOQRTUV"
@@ -572,9 +572,19 @@ def _open(configuration: Configuration) -> list[tuple[int, int]]:
 
 
 def microstate_count(configuration: Configuration | str) -> int:
-    """Number of microstates: the product of C(2(2l+1), k) over the subshells."""
+    """Number of microstates: the product of C(capacity, k) over the subshells (2(2l+1)
+    for nl, 2j+1 for nlj)."""
     config = as_configuration(configuration)
-    return math.prod(math.comb(pauli_limit(l), e) for _, l, e in config.occupancies)
+    return math.prod(math.comb(s.capacity, s.electrons) for s in config.subshells)
+
+
+def _ls_only(config: Configuration) -> Configuration:
+    """Refuse nlj input in LS functions: summing j-subshells into nl would invent states."""
+    if config.is_relativistic:
+        raise ConfspecPhysicsError(
+            "jj-configuration", f"{config} has nlj subshells; LS terms would lose their j "
+            "(use jj_levels() for the J levels, or write the subshells as nl)")
+    return config
 
 
 def term_multiplicities(configuration: Configuration | str | Iterable[tuple[int, int]]
@@ -617,7 +627,7 @@ def terms(configuration: Configuration | str) -> list[Term]:
     >>> [str(t) for t in terms("3d3")]
     ['4F', '4P', '2H', '2G', '2F', '2D', '2D', '2P']
     """
-    config = as_configuration(configuration)
+    config = _ls_only(as_configuration(configuration))
     parity = config.parity
     counts = _cached_counts(tuple(sorted(_open(config))))
     total = sum(counts.values())
@@ -671,7 +681,7 @@ def hund_ground_term(configuration: Configuration | str) -> Term:
     >>> str(hund_ground_term("[Ar] 3d6 4s2")), str(hund_ground_term("[Xe] 4f7 5d1 6s2"))
     ('5D4', '9D°2')
     """
-    config = as_configuration(configuration)
+    config = _ls_only(as_configuration(configuration))
     ML = MS2 = electrons = capacity = 0
     for l, k in _open(config):
         ml, ms2 = _hund_subshell(l, k)
@@ -680,3 +690,48 @@ def hund_ground_term(configuration: Configuration | str) -> Term:
     S = Fraction(MS2, 2)
     J = abs(ML - S) if 2 * electrons <= capacity else ML + S
     return make_term(MS2 + 1, ML, config.parity, J)
+
+
+# ---------------------------------------------------------------------------- jj coupling
+def _m_table(j2: int, electrons: int) -> dict[int, int]:
+    """Counts of 2M over the ways to put ``electrons`` into the 2j + 1 states of one
+    j-subshell (each m holds at most one electron: Pauli, common practice, no source)."""
+    states: dict[tuple[int, int], int] = {(0, 0): 1}
+    for m2 in range(-j2, j2 + 1, 2):
+        nxt: dict[tuple[int, int], int] = defaultdict(int)
+        for (e, M2), count in states.items():
+            nxt[(e, M2)] += count
+            if e < electrons:
+                nxt[(e + 1, M2 + m2)] += count
+        states = nxt
+    return {M2: c for (e, M2), c in states.items() if e == electrons}
+
+
+def jj_levels(configuration: Configuration | str) -> dict[Fraction, int]:
+    """How many levels of each J a configuration has, coupling every subshell by its own
+    angular momentum: nlj subshells by their j states, nl subshells by their (ML, MS) states.
+
+    This is why ``6p1/2^2`` has a single J = 0 level, and ``6p1/2 6p3/2`` only J = 1, 2
+    (the sum over J of (2J + 1) × count equals the number of microstates).
+
+    >>> {str(J): n for J, n in jj_levels("6p1/2^1 6p3/2^1").items()}
+    {'1': 1, '2': 1}
+    >>> jj_levels("6p1/2^2")
+    {Fraction(0, 1): 1}
+    """
+    config = as_configuration(configuration)
+    table: dict[int, int] = {0: 1}
+    for s in config.subshells:
+        if s.j is not None:
+            part = _m_table(s.j2, s.electrons)
+        else:
+            part = defaultdict(int)
+            for (ML, MS2), c in subshell_table(s.l, s.electrons).items():
+                part[2 * ML + MS2] += c
+        out: dict[int, int] = defaultdict(int)
+        for a, ca in table.items():
+            for b, cb in part.items():
+                out[a + b] += ca * cb
+        table = out
+    return {Fraction(M2, 2): table[M2] - table.get(M2 + 2, 0)
+            for M2 in sorted(table) if M2 >= 0 and table[M2] - table.get(M2 + 2, 0)}

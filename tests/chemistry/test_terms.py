@@ -271,8 +271,11 @@ def test_configuration_chemistry_views() -> None:
     assert parse("[Ne]").open_subshells == () and parse("[Ne]").unpaired_electrons == 0
 
 
-def test_relativistic_subshells_count_by_their_nl_sums() -> None:
-    # LS terms belong to the nl configuration: 2p1/2^2 2p3/2^1 is a 2p3 configuration
+def test_relativistic_subshells_are_refused_by_ls_functions() -> None:
+    # 2p1/2^2 2p3/2^1 is one jj level, J = 3/2 (a full j = 1/2 pair and one j = 3/2 electron;
+    # Condon & Shortley, jj coupling chapter): summing it into 2p3 would invent 4S, 2D, 2P
     jj = parse("[He] 2s2 2p1/2^2 2p3/2^1")
-    assert terms(jj) == terms("[He] 2s2 2p3")
-    assert hund_ground_term(jj) == parse_term("4S°3/2")
+    for function in (terms, hund_ground_term):
+        with pytest.raises(ConfspecError) as info:
+            function(jj)
+        assert info.value.code == "jj-configuration"

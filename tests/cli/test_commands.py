@@ -127,6 +127,7 @@ NOT_ROW_CODES = {
     "j-not-allowed": "level columns (--level): reached in tests/cli/test_levels.py",
     "parent-not-allowed": "level columns (--level): reached in tests/cli/test_levels.py",
     "too-many-terms": "listing terms (confspec.terms), not a cell check",
+    "jj-configuration": "LS terms of an nlj configuration (confspec.terms), not a cell check",
     "series-limit": "level columns: the 'Limit' row of a level table, reached in "
                     "tests/test_published_tables.py",
     "unknown-xray-level": "X-ray level names: not a configuration cell",
