@@ -68,8 +68,8 @@ def test_malformed_input_gets_its_code(code: str, text: str) -> None:
                  "    [Ar] 3p6 4s1\n"
                  "         ^", id="core-overlap"),
     pytest.param("1s2 2s2 2p6 3s", None, id="valid"),
-    pytest.param("1s2 2s2 %", "unexpected character '%'; expected '-', a number, a separator "
-                 "or an X-ray level such as L3 [syntax]\n"
+    pytest.param("1s2 2s2 %", "unexpected character '%'; expected '-', a number, a parent "
+                 "term such as (5D), a separator or an X-ray level such as L3 [syntax]\n"
                  "    1s2 2s2 %\n"
                  "            ^", id="syntax"),
     pytest.param("1s2 2s^", "the configuration ends too early; expected '$', '(', "

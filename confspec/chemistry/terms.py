@@ -304,6 +304,7 @@ class _Scanner:
                                    position=self.pos if at is None else at, text=self.text)
 
 
+_PARITY_LETTERS = ("E", "O")
 _ODD_MARKS = ("^{\\circ}", "^\\circ", "^{o}", "^{°}", "^{*}", "<sup>o</sup>", "<sup>°</sup>",
               "<sup>*</sup>", "^o", "^°", "^*", "°", "º", "ᵒ", "⁰", "o", "*")
 
@@ -366,6 +367,8 @@ def _j(scan: _Scanner) -> tuple[Fraction, int] | None:
     close = ""
     if scan.take("_{"):
         close = "}"
+    elif scan.take("_("):
+        close = ")"  # J in parentheses: ^2S_(1/2)
     elif scan.take("<sub>"):
         close = "</sub>"
     elif scan.take("<"):
@@ -433,6 +436,8 @@ def read_term(text: str, start: int = 0, end: int | None = None
     K = _jk_bracket(scan)
     L = _orbital(scan) if K is None else 0
     odd = scan.take(*_ODD_MARKS) is not None
+    if not odd and K is None:  # the opacity project's parity letters: 3PE even, 3PO odd
+        odd = scan.take(*_PARITY_LETTERS) == "O"
     found = _j(scan)
     if not odd and found is not None:
         odd = scan.take(*_ODD_MARKS) is not None  # parity written after J: 2P1/2°

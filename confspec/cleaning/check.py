@@ -18,6 +18,7 @@ from ..errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ..models import Configuration, Species
 from ..notation.clean import clean
 from ..notation.fastpath import fast_occupancies
+from ..notation.read import written_parents
 from ..physics import implied_inner_subshells, subshell_label
 from ..reading import MAX_INPUT_LENGTH, parse, parse_species
 from ..reading import validate as validate_text
@@ -287,6 +288,9 @@ class ConfigurationCheck(_Options):
             note = clean(text).note
             if note is not None:  # a footnote or provenance mark is kept, not dropped
                 fixes.append(f"note:{note}")
+            parents = written_parents(text)
+            if parents:  # coupling is notation: the value drops it, the row keeps a record
+                fixes.append(f"parents:{' '.join(parents)}")
         normalized = None if config is None else config.format(
             style=self.style, core=self.core, order=self.order)
         if self.strict and not errors and config is not None:

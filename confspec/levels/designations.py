@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import re
 import warnings
+from collections.abc import Sequence
 from fractions import Fraction
 from typing import Any
 
@@ -22,7 +23,8 @@ from ..errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ..models import Configuration, Species
 from ..notation.render import ORDER_KEYS, largest_core, style_of, token_text
 from ..notation.scripts import j_text
-from ..physics import NOBLE_CORES, Parity
+from ..notation.syntax import RawItem
+from ..physics import LETTER_TO_L, NOBLE_CORES, Parity, pauli_limit
 
 __all__ = ["Level", "ParentTerm", "parse_level", "validate_level"]
 
@@ -214,6 +216,12 @@ def _read_clean(text: str, accept_uppercase: bool
     parents = []
     start = 0
     for end, token, position in raw.parents:
+        if token == "()":  # an empty parent before the first subshell: nothing coupled yet
+            continue
+        if token[1:-1].isdigit():  # a seniority alone, `3d6(4)`: checked, not a term
+            problems.extend(_seniority_problems(items[start:end], int(token[1:-1]),
+                                                position, text))
+            continue
         parent_term, parent_j, prefix = read_term_token(token, position, text)
         if isinstance(parent_term, JKTerm):
             raise ConfspecSyntaxError("term-syntax", "a parent term is an LS term such as (2P°3/2)",
@@ -253,6 +261,25 @@ def _read_clean(text: str, accept_uppercase: bool
         ordering_letter=seniority,
         parents=tuple(p for p, _ in parents), uncertain=uncertain, species=species)
     return level, problems, context
+
+
+def _seniority_problems(items: Sequence[RawItem], v: int, position: int, text: str
+                        ) -> list[ConfspecError]:
+    """Racah's seniority v written alone after one subshell (``3d6(4)``): possible when
+    v ≤ the electrons w, v ≤ 2(2l+1) − w and v ≡ w (mod 2)."""
+    if len(items) != 1:
+        return [ConfspecSyntaxError(
+            "parent-not-allowed", "a seniority written alone, such as (4), follows one "
+            "subshell", position=position, text=text)]
+    item = items[0]
+    l = LETTER_TO_L[item.letter.lower()]
+    w = item.count if item.count is not None else 1
+    if v <= w and v <= pauli_limit(l) - w and (w - v) % 2 == 0:
+        return []
+    possible = [str(s) for s in range(min(w, pauli_limit(l) - w), -1, -2)][::-1]
+    return [ConfspecPhysicsError(
+        "parent-not-allowed", f"seniority {v} is impossible for {item.n}{item.letter}{w}; "
+        f"possible: {', '.join(possible)}", position=position, text=text)]
 
 
 def _with_j(term: Term | JKTerm | None, J: Fraction) -> Term | JKTerm | None:

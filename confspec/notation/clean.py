@@ -70,6 +70,8 @@ def _one_note_before(text: str, end: int) -> int | None:
         return end
     if last == "?":
         return end - 1
+    if last == ":" and end > 1 and not text[end - 2].isspace():
+        return end - 1  # the opacity project's mark of a doubtful identification: '2s 4p:'
     pairs = {")": "(", "]": "["}
     if last not in pairs:
         return None
@@ -213,7 +215,7 @@ def clean(text: str, *, notes: bool = True) -> Cleaned:
 _NOISE = re.compile(
     "^\\s*[*†‡]|\\$|^[=\"'“„‘«`]|\\\\(?:" + LATEX_COMMANDS + ")"
     "|[&–—‒\u200b\u200c\u200d\u2060\ufeff\u00ad\uff01-\uff5e]"
-    "|[*†‡§¶#?),;.\\]]\\s*$|(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
+    "|[*†‡§¶#?),;.:\\]]\\s*$|(?<=[a-z]) (?=[⁰¹²³⁴⁵⁶⁷⁸⁹⁻⁺])")
 
 
 def _drop_wrappers(build: _Builder, pattern: re.Pattern[str]) -> None:

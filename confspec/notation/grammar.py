@@ -31,7 +31,6 @@ from .syntax import (
     Segment,
     SepKind,
     Sub,
-    assemble,
     assemble_counted,
 )
 
@@ -59,11 +58,13 @@ _WORDS = {
     "XRAY": "an X-ray level such as L3", "ROMAN_LOWER": "a Roman numeral",
     "SUP_DIGITS_SIGN": "a superscript charge", "TERM": "a term such as 5D4",
     "PARENT": "a parent term such as (5D)", "UNCERTAIN": "'?'", "LABEL_SEP": "':' or '='",
+    "EMPTY_PARENT": "", "SENIORITY": "a seniority such as (4)",
 }
 
 
 def _expected_words(names: set[str] | frozenset[str]) -> str:
-    words = sorted({_WORDS.get(name, name.lower()) for name in names})
+    # an empty parent `()` only opens a body: LALR's merged states would list it anywhere
+    words = sorted({_WORDS.get(name, name.lower()) for name in names} - {""})
     if not words:
         return "nothing more"
     return words[0] if len(words) == 1 else ", ".join(words[:-1]) + " or " + words[-1]
@@ -96,10 +97,12 @@ class _Tail:
     uncertain: tuple[str, int] | None
 
 
-@dataclass
-class _Body:
-    segments: list[Segment]
-    seps: list[tuple[SepKind, int]]
+@dataclass(frozen=True)
+class _Marked:
+    """The pieces of a run and the seniority written after it (``3d6(4)``)."""
+
+    pieces: tuple[Piece, ...]
+    mark: Token
 
 
 class _ToRaw(Transformer[Token, Any]):
@@ -125,8 +128,10 @@ class _ToRaw(Transformer[Token, Any]):
     # -- configuration ---------------------------------------------------------------
     def configuration(self, children: list[Any]) -> RawConfiguration:
         core = children[0] if children and isinstance(children[0], RawCore) else None
-        body = children[-1] if children and isinstance(children[-1], _Body) else _Body([], [])
-        return assemble(core, body.segments, body.seps, self.text)
+        body = children[-1] if children and isinstance(children[-1], RawConfiguration) else None
+        if body is None:
+            return RawConfiguration(core, ())
+        return RawConfiguration(core, body.items, body.parents)
 
     def bracket_core(self, children: list[Token]) -> RawCore:
         token = children[0]
@@ -137,8 +142,34 @@ class _ToRaw(Transformer[Token, Any]):
     def bare_core(self, children: list[Token]) -> RawCore:
         return RawCore(str(children[0]), self._at(children[0]), False)
 
-    def body(self, children: list[Any]) -> _Body:
-        return _Body(children[0::2], children[1::2])
+    def body(self, children: list[Any]) -> RawConfiguration:
+        """Segments with separators and parent terms between them (parents: the number of
+        items written before each, so a level can find every parent's scope)."""
+        segments: list[Segment] = []
+        seps: list[tuple[SepKind, int]] = []
+        parent_after: list[tuple[int, str, int]] = []  # (segments so far, text, position)
+        for child in children:
+            if isinstance(child, Token):  # `()` before the first subshell, or a last parent
+                parent_after.append((len(segments), str(child), self._at(child)))
+            elif isinstance(child, _Gap):
+                if child.parent is not None:
+                    parent_after.append((len(segments), str(child.parent),
+                                         self._at(child.parent)))
+                seps.append(child.sep if child.sep is not None else
+                            ("punct", self._at(child.parent) if child.parent else 0))
+            elif isinstance(child, _Marked):  # a run that ends in a seniority `3d6(4)`
+                segments.append(child.pieces)
+                parent_after.append((len(segments), str(child.mark), self._at(child.mark)))
+            elif isinstance(child, tuple) and isinstance(child[0], str):
+                continue  # a separator next to `()` or before the last parent
+            else:
+                segments.append(child)
+        config, counts = assemble_counted(None, segments, seps, self.text)
+        parents = tuple((counts[k], text, pos) for k, text, pos in parent_after)
+        return RawConfiguration(None, config.items, parents)
+
+    def run_seniority(self, children: list[Any]) -> _Marked:
+        return _Marked(self.run([*children[:-2], [children[-2]]]), children[-1])
 
     def run(self, children: list[Any]) -> tuple[Piece, ...]:
         num, letter = children[0], children[1]
@@ -316,33 +347,18 @@ class _ToRaw(Transformer[Token, Any]):
         return str(element), self._at(element), value - 1, "spectrum"
 
     def lbody(self, children: list[Any]) -> RawLevel:
-        segments: list[Segment] = []
-        seps: list[tuple[SepKind, int]] = []
-        parent_after: list[tuple[int, str, int]] = []  # (segments so far, text, position)
-        tail: _Tail | None = None
-        for child in children:
-            if isinstance(child, _Tail):
-                tail = child
-            elif isinstance(child, Token) and child.type == "PARENT":
-                parent_after.append((len(segments), str(child), self._at(child)))
-            elif isinstance(child, _Gap):
-                if child.parent is not None:
-                    parent_after.append((len(segments), str(child.parent),
-                                         self._at(child.parent)))
-                seps.append(child.sep if child.sep is not None else
-                            ("punct", self._at(child.parent) if child.parent else 0))
-            else:
-                segments.append(child)
-        config, counts = assemble_counted(None, segments, seps, self.text)
-        parents = tuple((counts[k], text, pos) for k, text, pos in parent_after)
-        return RawLevel(None, config, parents, tail.term if tail else None,
-                        tail.uncertain if tail else None)
+        tail = children[-1] if children and isinstance(children[-1], _Tail) else None
+        config = self.body(children[:-1] if tail is not None else children)
+        return RawLevel(None, RawConfiguration(None, config.items), config.parents,
+                        tail.term if tail else None, tail.uncertain if tail else None)
 
     def gap_plain(self, children: list[Any]) -> _Gap:
         return _Gap(children[0], None)
 
     def gap_parent(self, children: list[Any]) -> _Gap:
-        return _Gap(children[1] if len(children) > 1 else None, children[0])
+        parent = next(c for c in children if isinstance(c, Token))
+        seps = [c for c in children if isinstance(c, tuple)]
+        return _Gap(seps[-1] if seps else None, parent)
 
     def level_tail(self, children: list[Any]) -> _Tail:
         term = next((c for c in children if isinstance(c, tuple)), None)

@@ -29,6 +29,7 @@ __all__ = [
     "precheck",
     "raw_configuration",
     "read_configuration",
+    "written_parents",
 ]
 
 
@@ -104,8 +105,38 @@ def read_configuration(text: str, *, accept_uppercase: bool,
         occupancies, errors = resolve(raw, work, accept_uppercase=accept_uppercase,
                                       reference=_reference(raw, reference))
     except ConfspecError as err:
-        raise remap(err, text, cleaned) from None
-    return occupancies, [remap(e, text, cleaned) for e in errors], cleaned
+        raise remap(_level_hint(err, work), text, cleaned) from None
+    return occupancies, [remap(_level_hint(e, work), text, cleaned) for e in errors], cleaned
+
+
+def written_parents(text: str) -> tuple[str, ...]:
+    """The parent terms a configuration cell carries (``3d6(5D)4s`` -> ``('(5D)',)``), as
+    written; empty when there are none or the text does not read."""
+    if "(" not in text:
+        return ()
+    try:
+        raw = raw_configuration(clean(text).text)
+    except ConfspecError:
+        return ()
+    return tuple(parent for _, parent, _ in raw.parents)
+
+
+def _level_hint(err: ConfspecError, text: str) -> ConfspecError:
+    """A syntax error in text that reads as a level designation says so."""
+    if err.code not in ("syntax", "uppercase-subshell"):
+        return err
+    from .grammar import parse_level_raw
+
+    try:
+        level = parse_level_raw(text)
+    except ConfspecError:
+        return err
+    if level.term is None and level.label is None:
+        return err
+    what = "a term" if level.term is not None else "a species label"
+    return type(err)(err.code, f"{err.message}; the text reads as a level designation "
+                     f"(a configuration with {what}): read it as a level (parse_level, "
+                     "the CLI's --level)", position=err.position, text=err.text)
 
 
 def raw_configuration(text: str) -> RawConfiguration:

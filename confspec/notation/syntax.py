@@ -47,6 +47,9 @@ class RawCore:
 class RawConfiguration:
     core: RawCore | None
     items: tuple[RawItem, ...]
+    #: parent terms written in the text: (items before it, text as written, position). A
+    #: configuration keeps them only to report them; a level designation checks them.
+    parents: tuple[tuple[int, str, int], ...] = ()
 
 
 # -- pieces of one run ------------------------------------------------------------------
