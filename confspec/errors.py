@@ -108,6 +108,10 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
     ("non-canonical", "physics",
      "Strict mode only: the text is valid but not written in the canonical notation.",
      "Store the canonical spelling given in the message (confspec normalize)."),
+    ("unknown-occupancy", "syntax",
+     "A '?' stands where an occupancy belongs ('[Ar] 3d?'): an export lost the digit. It is "
+     "never read as one electron.",
+     "Recover the count from the source table; a '?' after a space ('3d6 ?') is a note."),
     ("unknown-option", "syntax",
      "A formatting option (style, core, order) that confspec does not know.",
      "Use one of the documented values."),

@@ -69,6 +69,10 @@ def _one_note_before(text: str, end: int) -> int | None:
             end -= 1
         return end
     if last == "?":
+        # a '?' straight after a subshell letter stands for a lost digit (`3d?`): not a note
+        if end > 2 and text[end - 2] in "spdfghik^" and (text[end - 3].isdigit() or
+                                                         text[end - 2] == "^"):
+            return None
         return end - 1
     if last == ":" and end > 1 and not text[end - 2].isspace():
         return end - 1  # the opacity project's mark of a doubtful identification: '2s 4p:'

@@ -17,6 +17,7 @@ from lark import Lark, Token, Transformer
 from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
 
 from ..errors import ConfspecError, ConfspecSyntaxError
+from ..physics import LETTER_TO_L
 from .clean import unwrap_latex
 from .scripts import FROM_SUPERSCRIPT
 from .syntax import (
@@ -219,6 +220,16 @@ class _ToRaw(Transformer[Token, Any]):
 
     def open_link(self, children: list[Any]) -> list[Piece]:
         return [children[0], Letter(str(children[1]), self._at(children[1]))]
+
+    def superscript_link(self, children: list[Token]) -> list[Piece]:
+        token, letter = children
+        if str(letter).lower() not in LETTER_TO_L:  # `2p⁶⁶⁶x`: a stray letter, not a split
+            raise ConfspecSyntaxError("syntax", f"unexpected {str(letter)!r} after a superscript",
+                                      position=self._at(letter), text=self.text)
+        raw = str(token)
+        digits = raw.lstrip("⁺⁻").translate(FROM_SUPERSCRIPT)
+        return [Open(digits, self._at(token) + len(raw) - len(digits), raw.startswith("⁻")),
+                Letter(str(letter), self._at(letter))]
 
     def closed_link(self, children: list[Any]) -> list[Piece]:
         num = children[1]

@@ -121,8 +121,24 @@ def written_parents(text: str) -> tuple[str, ...]:
     return tuple(parent for _, parent, _ in raw.parents)
 
 
+def lost_occupancy(err: ConfspecError, text: str) -> ConfspecError:
+    """A syntax error at a '?' written where an occupancy belongs (``3d?``, ``3d^?``: a
+    digit a lossy export replaced) gets its own code: never read as one electron."""
+    at = err.position
+    if err.code != "syntax" or at is None or at >= len(text) or text[at] != "?":
+        return err
+    before = text[:at].rstrip("^")
+    if not before or before[-1] not in "spdfghikSPDFGHIK":
+        return err
+    return ConfspecSyntaxError(
+        "unknown-occupancy", f"'?' stands where the electron count of {before[-2:].strip()} "
+        "belongs (a digit lost in an export); the value cannot be read", position=at,
+        text=err.text)
+
+
 def _level_hint(err: ConfspecError, text: str) -> ConfspecError:
     """A syntax error in text that reads as a level designation says so."""
+    err = lost_occupancy(err, text)
     if err.code not in ("syntax", "uppercase-subshell"):
         return err
     from .grammar import parse_level_raw

@@ -103,6 +103,7 @@ REACHABLE = [
     pytest.param("2pâ\x81¶", "", "mojibake", id="mojibake"),
     pytest.param("1S2 2S2", "", "uppercase-subshell", id="uppercase-subshell"),
     pytest.param("2p110s1", "", "ambiguous-run-together", id="ambiguous-run-together"),
+    pytest.param("[Ar] 3d?", "", "unknown-occupancy", id="unknown-occupancy"),
     pytest.param("2p-1 3s1", "", "ambiguous-hole", id="ambiguous-hole"),
     pytest.param("3d6 4s2 [Ar]", "", "misplaced-core", id="misplaced-core"),
     pytest.param("1s2 2d1", "", "invalid-subshell", id="invalid-subshell"),
