@@ -26,7 +26,15 @@ from ..notation.scripts import j_text
 from ..notation.syntax import RawItem
 from ..physics import LETTER_TO_L, NOBLE_CORES, Parity, pauli_limit
 
-__all__ = ["Level", "ParentTerm", "parse_level", "validate_level"]
+__all__ = ["PARITY_CONVENTIONS", "Level", "ParentTerm", "has_odd_mark", "mark_parity",
+           "parse_level", "read_level", "validate_level"]
+
+#: How a table writes parity. ``marked``: a term without an odd mark (°) is even, as NIST
+#: writes them. ``unmarked``: a term without a mark says nothing about parity (many tables
+#: never mark odd terms), so only a written odd mark is checked, and the canonical text
+#: gains the mark its configuration implies. The cleaning commands add ``auto``: a column
+#: with no odd mark on any row is read as unmarked.
+PARITY_CONVENTIONS = ("marked", "unmarked")
 
 
 def read_term_token(token: str, position: int, text: str
@@ -166,6 +174,7 @@ def _term_text(term: Term | JKTerm, style: str) -> str:
 
 # ---------------------------------------------------------------------------- reading
 _LIMIT = re.compile(r"\bLimit\b", re.IGNORECASE)
+_LOST_OCCUPANCY = re.compile(r"(?<![0-9A-Za-z])([0-9]{1,2}[spdfghik])\^?\?")
 _SPACED_LABEL_CHARGE = re.compile(r"^[A-Z][a-z]?( )(?:\d*[+\-−]+|[+\-−]\d+)\s*[:=]")
 
 
@@ -182,6 +191,9 @@ def _read(text: str, *, accept_uppercase: bool = False
             "series-limit", "this is the ionization limit of a level table ('Limit'), not a "
             "level; nothing to check", position=limit.start(), text=original)
     cleaned = clean(original, notes=False)
+    helium = _HELIUM_LABEL.fullmatch(cleaned.text.strip())
+    if helium is not None:
+        return _read_helium_label(helium, original, accept_uppercase)
     spaced = _SPACED_LABEL_CHARGE.match(cleaned.text)  # 'Fe 2+: [Ar] 3d6'
     if spaced:
         cleaned = drop(cleaned, [spaced.span(1)])
@@ -193,12 +205,47 @@ def _read(text: str, *, accept_uppercase: bool = False
     return level, [remap(p, original, cleaned) for p in problems], context
 
 
+#: the label helium-like tables give a singly excited level: n, then the term of 1s nl
+#: (``2^3S_1``, ``1^1S_0``, ``3^1P``), where l is the term's L
+_HELIUM_LABEL = re.compile(r"([0-9]{1,2})\s*\^\s*\{?([13])\}?([SPDFGHIK])"
+                           r"(?:\s*_?\s*\{?([0-9]{1,2})\}?)?")
+
+
+def _read_helium_label(label: re.Match[str], original: str, accept_uppercase: bool
+                       ) -> tuple[Level | None, list[ConfspecError], dict[str, Any]]:
+    """``n^(2S+1)L_J`` of a two-electron spectrum, read as the level 1s nl (1s2 for n = 1)
+    with that term. The label carries no parity mark: the parity is that of l = L."""
+    from ..chemistry.terms import TERM_LETTERS
+
+    n, multiplicity, letter, J = label.groups()
+    L = TERM_LETTERS.index(letter)
+    config = "1s2" if n == "1" else f"1s1 {n}{'spdfghik'[L]}1"
+    expanded = f"{config} {multiplicity}{letter}{'°' if L % 2 else ''}{J or ''}"
+
+    def point(err: ConfspecError) -> ConfspecError:
+        return type(err)(err.code, f"{err.message} (the label reads as {expanded!r})",
+                         position=0, text=original)
+
+    try:
+        level, problems, context = _read_clean(expanded, accept_uppercase)
+    except ConfspecError as err:
+        raise point(err) from None
+    context.update(remap=point, helium_label=expanded)
+    return level, [point(p) for p in problems], context
+
+
 def _read_clean(text: str, accept_uppercase: bool
                 ) -> tuple[Level | None, list[ConfspecError], dict[str, Any]]:
     from ..notation.grammar import parse_level_raw
     from ..notation.resolve import resolve
     from ..reading import parse_species
 
+    lost = _LOST_OCCUPANCY.search(text) if "?" in text else None
+    if lost is not None:  # `3d? 2D`: a digit an export lost, never one electron
+        raise ConfspecSyntaxError(
+            "unknown-occupancy", f"'?' stands where the electron count of {lost.group(1)} "
+            "belongs (a digit lost in an export); the value cannot be read",
+            position=lost.end() - 1, text=text)
     raw = parse_level_raw(text)
     problems: list[ConfspecError] = []
     occupancies, errors = resolve(raw.configuration, text, accept_uppercase=accept_uppercase)
@@ -213,7 +260,9 @@ def _read_clean(text: str, accept_uppercase: bool
             problems.append(type(err)(err.code, err.message, position=position, text=text))
     config = Configuration.from_checked(occupancies)
     items = raw.configuration.items
-    parents = []
+    parents: list[tuple[ParentTerm, int]] = []
+    seniorities: list[str] = []
+    scopes: list[str] = []
     start = 0
     for end, token, position in raw.parents:
         if token == "()":  # an empty parent before the first subshell: nothing coupled yet
@@ -226,6 +275,12 @@ def _read_clean(text: str, accept_uppercase: bool
         if isinstance(parent_term, JKTerm):
             raise ConfspecSyntaxError("term-syntax", "a parent term is an LS term such as (2P°3/2)",
                                       position=position, text=text)
+        if parent_j is not None and parent_j not in parent_term.without_j().allowed_j() and \
+                parent_j.denominator == 1 and len(items[start:end]) == 1 and \
+                not _seniority_problems(items[start:end], int(parent_j), position, text):
+            # not a J of the term but a possible seniority: the opacity project's 3d5(6S5)
+            seniorities.append(token)
+            parent_j = None
         if parent_j is not None and parent_j not in parent_term.without_j().allowed_j():
             raise ConfspecPhysicsError(
                 "j-not-allowed", f"J = {j_text(parent_j)} is outside |L − S| … L + S for the "
@@ -237,6 +292,9 @@ def _read_clean(text: str, accept_uppercase: bool
             label = _item_label(item, config)
             if label is not None and label not in labels:
                 labels.append(label)
+        if not parents and len(labels) > 1 and _couples_last_only(config, labels, parent_term):
+            labels = labels[-1:]
+            scopes.append(token)
         parents.append((ParentTerm.model_construct(
             term=parent_term if parent_j is None else make_term(
                 parent_term.multiplicity, parent_term.L, parent_term.parity, parent_j),
@@ -253,7 +311,8 @@ def _read_clean(text: str, accept_uppercase: bool
     if raw.uncertain is not None:
         uncertain = "?" if raw.uncertain[0] == "?" else "predicted"
     context = {"text": text, "term_at": term_at, "J": J, "parents": parents,
-               "core_written": raw.configuration.core is not None}
+               "core_written": raw.configuration.core is not None,
+               "seniorities": seniorities, "scopes": scopes}
     if problems and any(p.code in ("unknown-element", "impossible-charge") for p in problems):
         return None, problems, context
     level = Level.model_construct(
@@ -261,6 +320,22 @@ def _read_clean(text: str, accept_uppercase: bool
         ordering_letter=seniority,
         parents=tuple(p for p, _ in parents), uncertain=uncertain, species=species)
     return level, problems, context
+
+
+def _couples_last_only(config: Configuration, labels: list[str], term: Term | JKTerm) -> bool:
+    """The opacity project's reading of ``3p5 3d4(3F4)``: a parent that is no term of all
+    the subshells before it but is one of the last alone couples that subshell only (the
+    NIST reading, a parent of everything written before it, is tried first)."""
+    if isinstance(term, JKTerm):
+        return False
+    subs = {s.label: s for s in config.subshells}
+    key = (term.multiplicity - 1, term.L)
+
+    def keys(chosen: list[str]) -> set[tuple[int, int]]:
+        return term_keys(Configuration.from_checked(
+            [(s.n, s.l, s.j2, s.electrons) for s in (subs[x] for x in chosen if x in subs)]))
+
+    return key not in keys(labels) and key in keys(labels[-1:])
 
 
 def _seniority_problems(items: Sequence[RawItem], v: int, position: int, text: str
@@ -272,7 +347,9 @@ def _seniority_problems(items: Sequence[RawItem], v: int, position: int, text: s
             "parent-not-allowed", "a seniority written alone, such as (4), follows one "
             "subshell", position=position, text=text)]
     item = items[0]
-    l = LETTER_TO_L[item.letter.lower()]
+    l = LETTER_TO_L.get(item.letter.lower())
+    if l is None:
+        return []  # not a subshell letter: the configuration's own check names it
     w = item.count if item.count is not None else 1
     if v <= w and v <= pauli_limit(l) - w and (w - v) % 2 == 0:
         return []
@@ -304,23 +381,113 @@ def _item_label(item: Any, config: Configuration) -> str | None:
     return f"{item.n}{item.letter.lower()}"  # emptied by a hole: keep the written label
 
 
-def parse_level(text: str, *, accept_uppercase: bool = False) -> Level:
+def parse_level(text: str, *, accept_uppercase: bool = False, parity: str = "marked"
+                ) -> Level:
     """Read a level designation; raise the first problem (see :func:`validate_level`).
+    With ``parity="unmarked"`` an unmarked term takes the parity of its configuration.
 
     >>> str(parse_level("3d7(4F)4s4p(3P°) z6G°13/2"))
     '3d7(4F) 4s1 4p1(3P°) z6G°13/2'
+    >>> str(parse_level("2p 2P3/2", parity="unmarked"))
+    '2p1 2P°3/2'
     """
+    return read_level(text, accept_uppercase=accept_uppercase, parity=parity)[0]
+
+
+def read_level(text: str, *, accept_uppercase: bool = False, parity: str = "marked"
+               ) -> tuple[Level, tuple[str, ...]]:
+    """:func:`parse_level`, with the names of what the reading added to the text as
+    written (``parity-from-configuration`` when the unmarked convention gave a term its
+    odd mark), so a cleaning job can record it."""
+    unmarked = _convention(parity)
     level, problems, context = _read(text, accept_uppercase=accept_uppercase)
     if level is not None and not problems:
-        problems = [context["remap"](p) for p in _consistency(level, context, None)]
+        problems = [context["remap"](p) for p in _consistency(level, context, None, unmarked)]
     if problems:
         raise problems[0]
     assert level is not None
-    return level
+    added = (*(("helium-label",) if "helium_label" in context else ()),
+             *(f"parent-seniority:{token}" for token in context.get("seniorities", ())),
+             *(f"parent-of-last-subshell:{token}" for token in context.get("scopes", ())))
+    if unmarked:
+        marked = mark_parity(level)
+        if marked != level:
+            return marked, (*added, "parity-from-configuration")
+    return level, added
+
+
+def has_odd_mark(text: str, *, term_only: bool = False) -> bool:
+    """Whether a level designation (or, with ``term_only``, a term) writes an odd-parity
+    mark anywhere: what the automatic convention looks for in a column."""
+    try:
+        if term_only:
+            return read_term(text)[0].parity == "odd"
+        level, _, context = _read(text)
+    except ConfspecError:
+        return False
+    if level is None or "helium_label" in context:  # the label's parity is implied
+        return False
+    terms = [level.term, *(p.term for p in level.parents)]
+    return any(t is not None and t.parity == "odd" for t in terms)
+
+
+def _convention(parity: str) -> bool:
+    """True for the unmarked convention; an unknown name is refused."""
+    if parity not in PARITY_CONVENTIONS:
+        raise ConfspecSyntaxError(
+            "unknown-option", f"unknown parity convention {parity!r}; use one of: "
+            + ", ".join(PARITY_CONVENTIONS), position=None, text=parity)
+    return parity == "unmarked"
+
+
+def mark_parity(level: Level) -> Level:
+    """The level with every term and parent that carries no odd mark given the parity its
+    subshells imply (the unmarked convention: ``2p 2P`` is ``2p 2P°``)."""
+    subs = {s.label: s for s in level.configuration.subshells}
+    parents: list[ParentTerm] = []
+    grouped: list[str] = []
+    for parent in level.parents:
+        group = Configuration.from_checked([(s.n, s.l, s.j2, s.electrons) for s in (
+            subs[label] for label in parent.subshells if label in subs)])
+        grouped.extend(parent.subshells)
+        left = Configuration.from_checked([(s.n, s.l, s.j2, s.electrons) for s in (
+            subs[label] for label in grouped if label in subs)])
+        key = (parent.term.multiplicity - 1, parent.term.L)
+        implied = group.parity if key in term_keys(group) else left.parity
+        parents.append(parent.model_copy(update={"term": _with_parity(parent.term, implied)})
+                       if parent.term.parity == "even" else parent)
+    term = level.term
+    if term is not None and term.parity == "even":
+        term = _with_parity(term, level.configuration.parity)
+    return level.model_copy(update={"term": term, "parents": tuple(parents)})
+
+
+def _with_parity(term: Any, parity: Parity) -> Any:
+    if isinstance(term, JKTerm):
+        return JKTerm.model_construct(multiplicity=term.multiplicity, K=term.K, parity=parity,
+                                      J=term.J)
+    return make_term(term.multiplicity, term.L, parity, term.J)
+
+
+def _parity_problem(term: Term | JKTerm, what: str, parity: Parity, unmarked: bool,
+                    position: int | None, text: str, why: str = ""
+                    ) -> ConfspecError | None:
+    """A term whose parity disagrees with its subshells; an unmarked term under the
+    unmarked convention gives no parity, and a message never calls it "marked"."""
+    if term.parity == parity or (unmarked and term.parity == "even"):
+        return None
+    if term.parity == "odd":
+        message = f"{term} is marked odd (°), but {what} has even parity{why}"
+    else:
+        message = (f"{term} has no odd mark, so it reads as even, but {what} has odd parity"
+                   f"{why}; mark odd terms with °, or read the table with the unmarked "
+                   "parity convention")
+    return ConfspecPhysicsError("parity-mismatch", message, position=position, text=text)
 
 
 def validate_level(level: Level | str, species: Species | str | None = None, *,
-                   accept_uppercase: bool = False) -> list[ConfspecError]:
+                   accept_uppercase: bool = False, parity: str = "marked"
+                   ) -> list[ConfspecError]:
     """Every problem of a level designation: configuration physics, term-not-allowed,
     parent-not-allowed, j-not-allowed, parity-mismatch and electron-count.
 
@@ -330,9 +497,13 @@ def validate_level(level: Level | str, species: Species | str | None = None, *,
     ['term-not-allowed']
     >>> validate_level("3d6(5D)4s 6D9/2")
     []
+
+    ``parity`` is the table's convention (:data:`PARITY_CONVENTIONS`): under ``unmarked``,
+    ``2p 2P`` passes (no mark, no parity given) while ``2s 2S°`` still fails.
     """
     from ..reading import as_species
 
+    unmarked = _convention(parity)
     problems: list[ConfspecError] = []
     kind: Species | None = None
     if species is not None:
@@ -355,12 +526,12 @@ def validate_level(level: Level | str, species: Species | str | None = None, *,
     if parsed is None:
         return problems
     where = context.get("remap", lambda err: err)
-    problems.extend(where(p) for p in _consistency(parsed, context, kind))
+    problems.extend(where(p) for p in _consistency(parsed, context, kind, unmarked))
     return problems
 
 
-def _consistency(level: Level, context: dict[str, Any], species: Species | None
-                 ) -> list[ConfspecError]:
+def _consistency(level: Level, context: dict[str, Any], species: Species | None,
+                 unmarked: bool = False) -> list[ConfspecError]:
     text = context["text"]
     problems: list[ConfspecError] = []
     config = level.configuration
@@ -389,11 +560,11 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
             left = Configuration.from_checked([(s.n, s.l, s.j2, s.electrons) for s in (
                 subs[label] for label in grouped if label in subs)])
             parity = left.parity if cumulative else group.parity
-            if parent.term.parity != parity:
-                problems.append(ConfspecPhysicsError(
-                    "parity-mismatch", f"parent term {parent.term} is marked "
-                    f"{parent.term.parity}, but {left if cumulative else group} has {parity} "
-                    "parity", position=position, text=text))
+            wrong = _parity_problem(parent.term, str(left if cumulative else group), parity,
+                                    unmarked, position, text)
+            if wrong is not None:
+                problems.append(type(wrong)(wrong.code, "parent term " + wrong.message,
+                                            position=position, text=text))
         # a parent after the first either closes its own group (3d7(4F)4s4p(3P°): 3P° of
         # 4s4p, coupled next) or names the coupled term of all before it (3d6(5D)4s(6D))
         coupled = {key} if coupled is None or cumulative else _couple(coupled, {key})
@@ -403,7 +574,7 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
         allowed_final = _couple(coupled, term_keys(rest))
     term, J = level.term, context["J"]
     if isinstance(term, JKTerm):
-        problems.extend(_jk_problems(level, term, J, context))
+        problems.extend(_jk_problems(level, term, J, context, unmarked))
     elif term is not None:
         key = (term.multiplicity - 1, term.L)
         if allowed_final is None:
@@ -421,13 +592,11 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
                 f"{term.without_j()}: "
                 + ", ".join(j_text(j) for j in term.without_j().allowed_j()),
                 position=context["term_at"], text=text))
-        if term.parity != config.parity:
-            problems.append(ConfspecPhysicsError(
-                "parity-mismatch", f"{term} is marked {term.parity}, but {config} has "
-                f"{config.parity} parity (the sum of l is "
-                f"{sum(s.l * s.electrons for s in config.subshells)})"
-                + ("; mark odd terms with °" if config.parity == "odd" else ""),
-                position=context["term_at"], text=text))
+        wrong = _parity_problem(term, str(config), config.parity, unmarked,
+                                context["term_at"], text, " (the sum of l is "
+                                f"{sum(s.l * s.electrons for s in config.subshells)})")
+        if wrong is not None:
+            problems.append(wrong)
     kind = species or level.species
     if kind is not None and config.electron_count != kind.electron_count and (
             context.get("core_written") or _implied_core(config, kind.electron_count) is None):
@@ -437,8 +606,8 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None
     return problems
 
 
-def _jk_problems(level: Level, term: JKTerm, J: Fraction | None, context: dict[str, Any]
-                 ) -> list[ConfspecError]:
+def _jk_problems(level: Level, term: JKTerm, J: Fraction | None, context: dict[str, Any],
+                 unmarked: bool) -> list[ConfspecError]:
     """jK coupling (NIST noble-gas levels, 2p5(2P°3/2)3s 2[3/2]°2): the core's J1 couples
     with l of the outer electrons to K, and K with their spin s to J."""
     text, at = context["text"], context["term_at"]
@@ -473,11 +642,8 @@ def _jk_problems(level: Level, term: JKTerm, J: Fraction | None, context: dict[s
         problems.append(ConfspecPhysicsError(
             "j-not-allowed", f"J = {j_text(J)} is not K ± s for {term.without_j()}: "
             + ", ".join(j_text(j) for j in term.allowed_j()), position=at, text=text))
-    if term.parity != config.parity:
-        problems.append(ConfspecPhysicsError(
-            "parity-mismatch", f"{term} is marked {term.parity}, but {config} has "
-            f"{config.parity} parity", position=at, text=text))
-    return problems
+    wrong = _parity_problem(term, str(config), config.parity, unmarked, at, text)
+    return problems if wrong is None else [*problems, wrong]
 
 
 def _implied_core(config: Configuration, electrons: int) -> tuple[tuple[int, int, int], ...] | None:
