@@ -19,6 +19,7 @@ from ..models import Configuration, Species
 from ..notation.clean import clean
 from ..notation.fastpath import fast_occupancies
 from ..notation.read import written_parents
+from ..notation.scripts import FROM_SUPERSCRIPT
 from ..physics import implied_inner_subshells, subshell_label
 from ..reading import MAX_INPUT_LENGTH, parse, parse_species
 from ..reading import validate as validate_text
@@ -35,6 +36,7 @@ __all__ = [
     "first_line",
     "is_oversized",
     "repair_text_available",
+    "writes_odd_parity",
 ]
 
 class InputError(Exception):
@@ -258,12 +260,17 @@ class ConfigurationCheck(_Options):
             if occupancies is not None:
                 fast = Configuration.from_shell_order(occupancies)
                 written = fast.format(style=self.style, core=self.core, order=self.order)
+                split = run_together_splits(text)
                 if self.strict and written != text:  # canonical in the chosen notation
                     return Outcome.make([ConfspecPhysicsError(
                         "non-canonical", f"valid, but the canonical spelling is {written!r}",
-                        position=None, text=text)], written, (), None, fast.electron_count)
-                return Outcome.make((), written, (), None, fast.electron_count)
+                        position=None, text=text)], written, split, None, fast.electron_count)
+                return Outcome.make((), written, split, None, fast.electron_count)
         fixes: list[str] = []
+        spectrum = None if species is None else _RUN_TOGETHER_SPECTRUM.fullmatch(species)
+        if spectrum is not None:
+            # 'FeIII': the spectrum Fe III with its space lost (read so, and said so)
+            fixes.append(f"spectrum:{spectrum.group(1)} {spectrum.group(2)}")
         upper = False
         config, errors = self._read(text, species, upper)
         if errors and self.repair_text:
@@ -291,6 +298,7 @@ class ConfigurationCheck(_Options):
             parents = written_parents(text)
             if parents:  # coupling is notation: the value drops it, the row keeps a record
                 fixes.append(f"parents:{' '.join(parents)}")
+            fixes.extend(run_together_splits(text))
         normalized = None if config is None else config.format(
             style=self.style, core=self.core, order=self.order)
         if self.strict and not errors and config is not None:
@@ -351,6 +359,46 @@ class ConfigurationCheck(_Options):
         return None
 
 
+#: a symbol with its Roman numeral run on ('FeIII', 'CII'): read as a spectrum
+_RUN_TOGETHER_SPECTRUM = re_compile(r"([A-Z][a-z]?)([IVXLC]+)")
+_SUPERSCRIPT_DIGITS = "⁰¹²³⁴⁵⁶⁷⁸⁹"
+#: one run of subshells written without separators in which the occupancy digits of a
+#: subshell run into the principal number of the next (``1s22s22p6``, ``5d16s2``, ``5d¹⁶s²``)
+_RUN = re_compile(rf"[0-9]+[spdfghik](?:[0-9{_SUPERSCRIPT_DIGITS}]*[spdfghik])*"
+                  rf"[0-9{_SUPERSCRIPT_DIGITS}]*")
+_SPLIT = re_compile(rf"([spdfghik])(?=([0-9]{{2,}}|[{_SUPERSCRIPT_DIGITS}]{{2,}})[spdfghik])")
+
+
+@lru_cache(maxsize=4096)
+def run_together_splits(text: str) -> tuple[str, ...]:
+    """A ``run-together:`` fix entry per run whose digits were split into an occupancy that
+    leaves its subshell open and the next principal number (``5d16s2``: 5d1 6s2, where the
+    digits could also be a 5d10 that lost its 0, or 5d 16s2): the single-digit convention
+    chose, and the row says so. Closed subshells run together (``1s22s22p6``) leave no
+    doubt and no entry."""
+    if len(text) > 512 or _SPLIT.search(text) is None:  # most cells: no digits run on
+        return ()
+    out = []
+    for match in _RUN.finditer(text):
+        if not any(_open_split(split.group(1), split.group(2))
+                   for split in _SPLIT.finditer(match.group())):
+            continue
+        try:
+            out.append(f"run-together:{parse(match.group()).format(core='expand')}")
+        except ConfspecError:
+            out.append(f"run-together:{match.group()}")
+    return tuple(out)
+
+
+def _open_split(letter: str, digits: str) -> bool:
+    """Whether the occupancy the split leaves (all digits but the last) is below the
+    subshell's capacity."""
+    from ..physics import LETTER_TO_L, pauli_limit
+
+    occupancy = int(digits[:-1].translate(FROM_SUPERSCRIPT))
+    return occupancy < pauli_limit(LETTER_TO_L[letter])
+
+
 _J_DECIMAL = re_compile(r"^\s*(\d+)\.5\s*$")
 _J_WHOLE = re_compile(r"^\s*(\d+)\.0*\s*$")
 
@@ -386,20 +434,49 @@ class LevelCheck(_Options):
     roles: ClassVar[tuple[str, ...]] = ("level", "species", "term", "j")
 
     term_column: bool = False
+    #: how the table writes parity (``confspec.levels.PARITY_CONVENTIONS``); the CLI's
+    #: ``auto`` picks one per column before the run
+    parity: str = "marked"
+    fill_core: bool = False
+    repair_text: bool = False
+
+    def __post_init__(self) -> None:
+        from ..levels.designations import validate_level
+
+        super().__post_init__()
+        validate_level("1s", parity=self.parity)  # an unknown convention is refused early
 
     def __call__(self, *cells: str | None) -> Outcome:
-        from ..levels.designations import parse_level, validate_level
-
         text, species, term, j = (*cells, None, None, None, None)[:4]
         oversized = _too_long(cells)  # before any scan of the text
         if oversized is not None:
             return oversized
         if text is None or not text.strip():
             return Outcome.make(validate_text(text or ""))
+        outcome = self._check(text, species, term, j)
+        if outcome.errors and self.repair_text:
+            repaired = _repair_text(text)
+            if repaired != text:
+                again = self._check(repaired, species, term, j)
+                if not again.errors or again.code != outcome.code:
+                    return Outcome.make(again.errors, again.normalized,
+                                        ("repair-text", *again.fixes), again.checked or repaired,
+                                        again.electrons)
+        return outcome
+
+    def _check(self, text: str, species: str | None, term: str | None, j: str | None
+               ) -> Outcome:
+        from ..levels.designations import parse_level, read_level, validate_level
+
         species = species.strip() if species is not None and species.strip() else None
         level_text = text
+        fixes: list[str] = []
         config_text = clean(text, notes=False).text.strip()
         if term is not None and term.strip():
+            cleaned = clean(text)  # a mark in the configuration cell is a note, not syntax
+            if cleaned.note is not None:
+                config_text = cleaned.text.strip()
+                fixes.append(f"note:{cleaned.note}")
             term_text = _term_cell(term, j)
             if isinstance(term_text, ConfspecError):
                 return Outcome.make([term_text])
@@ -412,14 +489,17 @@ class LevelCheck(_Options):
                 return Outcome.make([ConfspecSyntaxError(
                     "term-syntax", f"J column: {j.strip()!r} is not a J such as 4, 9/2 or 4.5",
                     position=0, text=j.strip())])
-            if not validate_level(level_text, species, accept_uppercase=self.accept_uppercase):
-                electrons = parse_level(level_text).configuration.electron_count
+            if not validate_level(level_text, species, accept_uppercase=self.accept_uppercase,
+                                  parity=self.parity):
+                electrons = parse_level(level_text, parity=self.parity
+                                        ).configuration.electron_count
                 if ("/" in j_value) != (electrons % 2 == 1):
                     return Outcome.make([ConfspecPhysicsError(
                         "j-not-allowed", f"J = {j_value} is impossible for {electrons} electrons"
                         ": J is half-integer exactly when the electron count is odd",
                         position=None, text=text)])
-        problems = validate_level(level_text, species, accept_uppercase=self.accept_uppercase)
+        problems = validate_level(level_text, species, accept_uppercase=self.accept_uppercase,
+                                  parity=self.parity)
         if problems and level_text != text:
             # problems of the joined term point at the term cell, not past the configuration
             problems = [p if p.position is None or p.position <= len(config_text) else
@@ -428,7 +508,23 @@ class LevelCheck(_Options):
                         for p in problems]
         if problems:
             return Outcome.make(problems, checked=level_text if level_text != text else None)
-        level = parse_level(level_text, accept_uppercase=self.accept_uppercase)
+        level, marks = read_level(level_text, accept_uppercase=self.accept_uppercase,
+                                  parity=self.parity)
+        fixes.extend(marks)
+        if self.fill_core and species is not None:
+            filled = _fill_inner(level.configuration, _species(species))
+            if filled is not None:
+                added, config = filled
+                fixes.append(f"fill-core:{added}")
+                parents = level.parents
+                if parents and not added.startswith("["):
+                    # inner subshells outside a core join the first group, where a closed
+                    # subshell leaves the parent term as it is (NIST writes 2s2.2p2(3P).3p)
+                    had = {t.label for t in level.configuration.subshells}
+                    inner = tuple(s.label for s in config.subshells if s.label not in had)
+                    parents = (parents[0].model_copy(
+                        update={"subshells": inner + parents[0].subshells}), *parents[1:])
+                level = level.model_copy(update={"configuration": config, "parents": parents})
         if self.term_column:  # the term stays in its own column; parents stay here
             bare = level.model_copy(update={"term": None, "seniority": None, "uncertain": None})
             normalized = bare.format(self.style, core=self.core, order=self.order)
@@ -439,8 +535,36 @@ class LevelCheck(_Options):
             errors.append(ConfspecPhysicsError(
                 "non-canonical", f"valid, but the canonical spelling is {normalized!r}",
                 position=None, text=text))
-        return Outcome.make(errors, normalized, (), level_text if level_text != text else None,
+        return Outcome.make(errors, normalized, fixes,
+                            level_text if level_text != text else None,
                             level.configuration.electron_count)
+
+
+def _fill_inner(config: Configuration, kind: Species) -> tuple[str, Configuration] | None:
+    """The closed inner subshells a level table leaves unwritten, added (as a noble-gas core
+    when they are one): ``3d6(5D)4s`` of Fe II gains [Ar]."""
+    written = {(s.n, s.l) for s in config.subshells}
+    inner = implied_inner_subshells(written, kind.electron_count - config.electron_count)
+    if not inner:
+        return None
+    full = Configuration.from_checked([*inner, *config.occupancies])
+    for symbol, _, subshells in _cores():
+        if subshells == {(n, l) for n, l, _ in inner}:
+            return f"[{symbol}]", full
+    return " ".join(f"{subshell_label(n, l)}{e}" for n, l, e in inner), full
+
+
+def writes_odd_parity(cell: object, *, term_cell: bool) -> bool:
+    """Whether one cell of a level or term column carries an odd-parity mark: the
+    automatic parity convention reads a column without any as unmarked."""
+    from ..levels.designations import has_odd_mark
+
+    if not isinstance(cell, str) or not cell.strip() or len(cell) > MAX_INPUT_LENGTH:
+        return False
+    if not term_cell:
+        return has_odd_mark(cell)
+    token = _term_cell(cell, None)
+    return isinstance(token, str) and has_odd_mark(token.rstrip(" ?"), term_only=True)
 
 
 def _term_cell(term: str, j: str | None) -> str | ConfspecError:

@@ -19,6 +19,7 @@ __all__ = [
     "DEFAULT_CACHE_SIZE",
     "Chunk",
     "RowJob",
+    "RowMark",
     "Sink",
     "Source",
 ]
@@ -117,6 +118,19 @@ class Chunk:
     first_row: int
     lines: list[int] | None = None  # source line of each row (text formats)
     plain: bool = False  # cells are only str, None or numbers (no lists, dicts, MISSING)
+    marks: list[RowMark | None] | None = None  # what the reader found beyond the cells
+
+
+@dataclass(frozen=True, slots=True)
+class RowMark:
+    """What a reader knows about one row beyond its cells, recorded on the row's outcome:
+    ``fixes`` entries (cells it filled in, the header the row sits under) and, for an
+    ionization-limit row of a level table, the column and text that say ``Limit`` (the row
+    is then reported ``series-limit`` whatever the mode)."""
+
+    fixes: tuple[str, ...] = ()
+    limit_column: str | None = None
+    limit_text: str = ""
 
 
 class Source(Protocol):

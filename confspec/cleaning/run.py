@@ -16,8 +16,9 @@ from dataclasses import dataclass, field
 from multiprocessing import get_context
 from typing import IO, Any
 
+from ..errors import ConfspecSyntaxError
 from .check import MISSING, InputError, Key, Outcome, cell_text
-from .job import Chunk, RowJob, Sink, Source, _init_worker, _Pending, _work
+from .job import Chunk, RowJob, RowMark, Sink, Source, _init_worker, _Pending, _work
 
 __all__ = [
     "DEFAULT_CHUNK_ROWS",
@@ -63,6 +64,7 @@ class Summary:
     keep: int = 5
     distinct_computed: int = 0
     blank_lines: int = 0
+    filled_cells: int = 0  # blank cells a reader filled from the row above (NIST text)
     seconds: float = 0.0
 
     @property
@@ -79,6 +81,7 @@ class Summary:
             "repaired_rows": self.repaired_rows,
             "fixes": dict(self.fixes.most_common()),
             "blank_lines": self.blank_lines,
+            "filled_cells": self.filled_cells,
             "distinct_computed": self.distinct_computed,
             "seconds": round(self.seconds, 3),
             "examples": [{
@@ -283,6 +286,8 @@ def run(source: Source, job: RowJob, role_columns: Sequence[str | None], *,
         fraction = read_at.pop(id(item), None) if read_at else source.fraction()
         outcomes = item.result(job)
         chunk = item.chunk
+        if chunk.marks is not None:
+            outcomes = _marked(chunk.marks, outcomes)
         summary.add(chunk, value_at, outcomes)
         last = len(writers) - 1
         for index, (sink, build) in enumerate(writers):
@@ -342,13 +347,42 @@ def run(source: Source, job: RowJob, role_columns: Sequence[str | None], *,
         progress.done()
     summary.distinct_computed = job.computed
     summary.blank_lines = int(getattr(source, "blank_lines", 0))
+    summary.filled_cells = int(getattr(source, "filled_cells", 0))
     summary.seconds = time.monotonic() - started
     return summary
 
 
 def _copy(chunk: Chunk) -> Chunk:
     return Chunk(chunk.columns, [list(r) for r in chunk.rows], chunk.first_row, chunk.lines,
-                 chunk.plain)
+                 chunk.plain, chunk.marks)
+
+
+def _marked(marks: Sequence[RowMark | None], outcomes: list[Outcome]) -> list[Outcome]:
+    """The outcomes with what the reader found recorded on them (each distinct pair once)."""
+    made: dict[tuple[int, RowMark], Outcome] = {}
+    out = []
+    for mark, outcome in zip(marks, outcomes, strict=True):
+        if mark is None:
+            out.append(outcome)
+            continue
+        key = (id(outcome), mark)
+        hit = made.get(key)
+        if hit is None:
+            hit = made[key] = _with_mark(mark, outcome)
+        out.append(hit)
+    return out
+
+
+def _with_mark(mark: RowMark, outcome: Outcome) -> Outcome:
+    if mark.limit_column is not None:  # as level mode reports a 'Limit' term, in every mode
+        return Outcome.make([ConfspecSyntaxError(
+            "series-limit", f"this row is the ionization limit of the table "
+            f"({mark.limit_text!r} in column {mark.limit_column!r}), not a level or a "
+            "configuration; nothing to check", position=0, text=mark.limit_text)],
+            fixes=mark.fixes)
+    # the reader's entries first: it filled the cells before the check read them
+    return Outcome.make(outcome.errors, outcome.normalized, (*mark.fixes, *outcome.fixes),
+                        outcome.checked, outcome.electrons)
 
 
 def _positions(columns: Sequence[str], role_columns: Sequence[str | None], label: str

@@ -144,7 +144,7 @@ def _add_unattended(p: argparse.ArgumentParser) -> None:
 
 
 def _normalize_options(p: argparse.ArgumentParser) -> None:
-    from ..cleaning import FORMATS
+    from ..cleaning import WRITTEN_FORMATS
 
     _add_input(p)
     _add_unattended(p)
@@ -153,7 +153,8 @@ def _normalize_options(p: argparse.ArgumentParser) -> None:
                      help="a file (format by extension), '-' for stdout (CSV unless "
                           "--output-format says otherwise), a FIFO or device (written "
                           "directly), or a database (a new table)")
-    out.add_argument("--output-format", choices=FORMATS, help="override the output format")
+    out.add_argument("--output-format", choices=WRITTEN_FORMATS,
+                     help="override the output format")
     out.add_argument("--output-table", metavar="NAME",
                      help="table to create in a database output (default: the input table "
                           "name, '<table>_normalized' in the same database, or the file name)")
@@ -204,10 +205,11 @@ def _codes_options(p: argparse.ArgumentParser) -> None:
 
 # ===================================================================== shared by check, normalize
 def _add_input(p: argparse.ArgumentParser) -> None:
-    from ..cleaning import DEFAULT_CACHE_SIZE, DEFAULT_CHUNK_ROWS, FORMATS
+    from ..cleaning import DEFAULT_CACHE_SIZE, DEFAULT_CHUNK_ROWS, FORMATS, WRITTEN_FORMATS
 
     p.add_argument("input", metavar="INPUT",
-                   help="a file (CSV, TSV, JSON Lines, Parquet; by extension, .gz allowed), '-' "
+                   help="a file (CSV, TSV, JSON Lines, JSON, Parquet, NIST ASD text .txt, "
+                        "markdown .md, reStructuredText .rst; by extension, .gz allowed), '-' "
                         "for stdin (CSV unless --input-format says otherwise) or a database: "
                         "sqlite:///file.db, a .db/.sqlite path, or any SQLAlchemy URL")
     p.add_argument("--column", "-c", required=True, metavar="COL",
@@ -223,11 +225,20 @@ def _add_input(p: argparse.ArgumentParser) -> None:
                         help="a column holding the term (5D4, 2P°1/2) of each configuration")
     levels.add_argument("--j-column", metavar="COL",
                         help="a column holding J (4, 9/2 or 4.5), with --term-column")
+    levels.add_argument("--parity", choices=("auto", "marked", "unmarked"), default="auto",
+                        help="how the table writes parity: marked (a term without ° is even, "
+                             "as NIST writes), unmarked (no mark: parity not given, taken from "
+                             "the configuration), auto (default: unmarked when no row of the "
+                             "column writes an odd mark; the summary says which)")
     p.add_argument("--table", "-t", metavar="NAME", help="the table to read, for a database")
     p.add_argument("--input-format", choices=FORMATS, help="override the input file format")
+    p.add_argument("--records-key", metavar="KEY",
+                   help="plain JSON input: the member of the top-level object that holds the "
+                        "array of records (needed when it holds several)")
     p.add_argument("--encoding", default="utf-8-sig",
-                   help="text encoding of CSV/TSV/JSON Lines input (default: UTF-8, with or "
-                        "without a byte-order mark)")
+                   help="text encoding of a text input: CSV, TSV, JSON Lines, JSON, NIST "
+                        "text, markdown, reStructuredText (default: UTF-8, with or without a "
+                        "byte-order mark)")
     repairs = p.add_argument_group("repairs (each recorded per row in the fixes column)")
     repairs.add_argument("--accept-uppercase", action="store_true",
                          help="read upper-case subshell letters ('2P6') when the value fails "
@@ -258,5 +269,6 @@ def _add_input(p: argparse.ArgumentParser) -> None:
                           help="progress display on stderr (auto: when it is a terminal)")
     p.add_argument("--report", "-r", metavar="REPORT",
                    help="write one row per input row: row, input, status, code, message, "
-                        "normalized, fixes (CSV, TSV, JSON Lines or Parquet by extension)")
-    p.add_argument("--report-format", choices=FORMATS, help="override the report format")
+                        "normalized, fixes (CSV, TSV, JSON Lines, JSON or Parquet by extension)")
+    p.add_argument("--report-format", choices=WRITTEN_FORMATS,
+                   help="override the report format")

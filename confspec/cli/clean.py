@@ -9,10 +9,12 @@ interrupted run leaves no half-written file.
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import json
 import os
 import re
 import sys
+from textwrap import fill
 from typing import IO, Any
 
 from ..cleaning import (
@@ -25,21 +27,28 @@ from ..cleaning import (
     Database,
     InPlaceSink,
     InputError,
+    JsonEnvelope,
     JsonLinesSink,
     JsonLinesSource,
+    JsonSink,
+    JsonSource,
     LevelCheck,
     OutputColumns,
     ParquetSink,
     ParquetSource,
+    PipeTableSource,
     Progress,
+    ReplayedSource,
     RowJob,
     RowWriter,
+    RstTableSource,
     Sink,
     Source,
     Summary,
     TableSink,
     TableSource,
     abort_unfinished,
+    decide_parity,
     format_of,
     in_place_rows,
     is_database,
@@ -75,10 +84,15 @@ def _wrapped(items: list[str], width: int) -> list[str]:
     return lines
 
 
-def _print_summary(summary: Summary, what: str, *, out: IO[str]) -> None:
+def _print_summary(summary: Summary, what: str, *, out: IO[str],
+                   args: argparse.Namespace | None = None) -> None:
     total = summary.rows
     share = f" ({summary.valid / total:.1%})" if total else ""
     say(what, out)
+    decision = None if args is None else getattr(args, "parity_decision", None)
+    if decision is not None:  # it explains the figures below, so it comes first
+        say(fill(decision.describe(), width=92, initial_indent="  ",
+                 subsequent_indent="    "), out)
     say(f"  rows read   {total:>10,}", out)
     say(f"  valid       {summary.valid:>10,}{share}", out)
     say(f"  invalid     {summary.invalid:>10,}", out)
@@ -87,6 +101,9 @@ def _print_summary(summary: Summary, what: str, *, out: IO[str]) -> None:
         say(f"  repaired    {summary.repaired_rows:>10,}  ({kinds})", out)
     if summary.blank_lines:
         say(f"  blank lines {summary.blank_lines:>10,}  (not rows; skipped)", out)
+    if summary.filled_cells:
+        say(f"  filled      {summary.filled_cells:>10,}  (blank cells repeating the row above;"
+            " each row says which in its fixes)", out)
     if summary.by_code:
         say("  invalid rows by code (of their first problem):", out)
         for line in _wrapped([f"{code} {count:,}" for code, count
@@ -97,8 +114,10 @@ def _print_summary(summary: Summary, what: str, *, out: IO[str]) -> None:
         for ex in summary.examples:
             where = f"row {ex.row:,}" + (f" (line {ex.line:,})" if ex.line else "")
             say(f"    {where}: {_short(ex.value)}", out)
-            if ex.outcome.fixes:
+            if ex.outcome.fixes and ex.outcome.checked is not None:
                 say(f"      after {', '.join(ex.outcome.fixes)}: {ex.outcome.checked!r}", out)
+            elif ex.outcome.fixes:  # recorded, not rewritten (parents, notes, spectrum)
+                say(f"      recorded {', '.join(ex.outcome.fixes)}", out)
             for err in ex.outcome.errors[:3]:
                 say(indent(err.render(), 6), out)
             if len(ex.outcome.errors) > 3:
@@ -130,19 +149,47 @@ def _check_from(args: argparse.Namespace) -> ConfigurationCheck | LevelCheck:
     if args.repair_text and not repair_text_available():
         raise InputError("--repair-text needs ftfy: pip install 'confspec[tables]'")
     if _levels_asked(args):
-        if args.fill_core or args.repair_text:
-            raise InputError("--fill-core and --repair-text apply to configuration columns, "
-                             "not to level designations (--level, --term-column, --j-column)")
         if args.j_column and not args.term_column and not args.level:
             raise InputError("--j-column needs --term-column (or --level)")
         return LevelCheck(strict=getattr(args, "strict", False),
                           accept_uppercase=args.accept_uppercase,
                           term_column=bool(args.term_column), style=args.style, core=args.core,
-                          order=args.order)
+                          order=args.order, fill_core=args.fill_core,
+                          repair_text=args.repair_text,
+                          parity="marked" if args.parity == "auto" else args.parity)
     return ConfigurationCheck(strict=getattr(args, "strict", False),
                               accept_uppercase=args.accept_uppercase, fill_core=args.fill_core,
                               repair_text=args.repair_text, style=args.style, core=args.core,
                               order=args.order)
+
+
+def _job(args: argparse.Namespace, check: ConfigurationCheck | LevelCheck, source: Source,
+         opened: _Opened) -> tuple[Source, RowJob]:
+    """The row job; for levels with ``--parity auto``, the column's convention decided first
+    (an input read once more, or standard input held until its first odd mark)."""
+    if not isinstance(check, LevelCheck) or getattr(args, "parity", "auto") != "auto":
+        return source, RowJob(check, args.cache_size)
+    column = args.term_column or args.column
+    if args.input == STDIN and not args.table:
+        seen: list[Any] = []
+        stream = source.chunks(args.chunk_rows)
+        decision = decide_parity(stream, source.columns, column, source.label,
+                                 term_cells=bool(args.term_column), seen=seen)
+        source = ReplayedSource(source, seen, stream)
+    else:
+        again = _Opened()
+        try:
+            fresh = _open_source(args, again)
+            decision = decide_parity(fresh.chunks(args.chunk_rows), fresh.columns, column,
+                                     fresh.label, term_cells=bool(args.term_column))
+        finally:  # not _Opened.close(): that also aborts the outputs already made
+            for opened_source in again.sources:
+                opened_source.close()
+            for db in again.databases:
+                db.close()
+    args.parity_decision = decision
+    return source, RowJob(dataclasses.replace(check, parity=decision.convention),
+                          args.cache_size)
 
 
 def _open_source(args: argparse.Namespace, opened: _Opened, *, writable: bool = False,
@@ -167,11 +214,21 @@ def _open_source(args: argparse.Namespace, opened: _Opened, *, writable: bool = 
         if in_place:
             raise InputError("--in-place-column is for database inputs; write files with -o")
         fmt = format_of(target, args.input_format)
+        if args.records_key is not None and fmt != "json":
+            raise InputError(f"--records-key names the array of records in a plain JSON "
+                             f"input; {target} is read as {fmt}")
         if fmt in ("csv", "tsv"):
             source = CsvSource(target, delimiter="\t" if fmt == "tsv" else ",",
                                encoding=args.encoding)
         elif fmt == "jsonl":
             source = JsonLinesSource(target, encoding=args.encoding, scan_keys=tabular_output)
+        elif fmt == "json":
+            source = JsonSource(target, encoding=args.encoding, scan_keys=tabular_output,
+                                records_key=args.records_key)
+        elif fmt in ("nist-text", "markdown"):
+            source = PipeTableSource(target, flavor=fmt, encoding=args.encoding)
+        elif fmt == "rst":
+            source = RstTableSource(target, encoding=args.encoding)
         else:
             source = ParquetSource(target)
     opened.sources.append(source)
@@ -179,8 +236,11 @@ def _open_source(args: argparse.Namespace, opened: _Opened, *, writable: bool = 
 
 
 def _file_sink(path: str, fmt: str | None, *, types: dict[str, Any] | None = None,
-               overwrite: bool = False) -> Sink:
-    kind = format_of(path, fmt)
+               overwrite: bool = False, option: str = "--output-format",
+               envelope: JsonEnvelope | None = None) -> Sink:
+    kind = format_of(path, fmt, option=option, written=True)
+    if kind == "json":
+        return JsonSink(path, envelope=envelope, overwrite=overwrite)
     if kind == "csv":
         return CsvSink(path, overwrite=overwrite)
     if kind == "tsv":
@@ -275,9 +335,11 @@ def _report_sink(args: argparse.Namespace) -> Sink | None:
     if not args.report:
         return None
     if is_database(args.report):
-        raise InputError(f"{args.report}: the report is a file (CSV, TSV, JSON Lines, Parquet)")
+        raise InputError(f"{args.report}: the report is a file (CSV, TSV, JSON Lines, JSON, "
+                         "Parquet)")
     _refuse_same_file(args.input, args.report, "report")
-    return _file_sink(args.report, args.report_format, overwrite=args.overwrite)
+    return _file_sink(args.report, args.report_format, overwrite=args.overwrite,
+                      option="--report-format")
 
 
 def _value_index(source: Source, args: argparse.Namespace) -> int:
@@ -298,7 +360,8 @@ def run_check(args: argparse.Namespace) -> int:
         report = _report_sink(args)
         if report is not None:
             writers.append((report, report_rows([value_at])))
-        summary = run(source, RowJob(check, args.cache_size), _role_columns(args),
+        source, job = _job(args, check, source, opened)
+        summary = run(source, job, _role_columns(args),
                       writers=writers, chunk_size=args.chunk_rows, jobs=args.jobs,
                       progress=_progress(args), keep_examples=max(0, args.examples))
     finally:
@@ -307,11 +370,11 @@ def run_check(args: argparse.Namespace) -> int:
     if not args.quiet:
         out = _summary_stream(args)
         _print_summary(summary, f"checked {source.label}, column {args.column!r}{species}"
-                       + (" (strict)" if args.strict else ""), out=out)
+                       + (" (strict)" if args.strict else ""), out=out, args=args)
         if args.report:
             say(f"  report: {args.report} ({summary.rows:,} rows)", out)
     return _finish(args, summary, {"input": source.label, "column": args.column,
-                                   "report": args.report})
+                                   "report": args.report, **_parity_facts(args)})
 
 
 def run_normalize(args: argparse.Namespace) -> int:
@@ -334,13 +397,25 @@ def run_normalize(args: argparse.Namespace) -> int:
     if not args.quiet:
         out = _summary_stream(args)
         _print_summary(summary, f"normalized {args.column!r} of {where[0]} "
-                       f"(style {args.style}, core {args.core}, order {args.order})", out=out)
+                       f"(style {args.style}, core {args.core}, order {args.order})", out=out,
+                       args=args)
         say(f"  written: {where[1]} ({summary.rows:,} rows; "
             f"{summary.invalid:,} flagged and kept as they were)", out)
         if args.report:
             say(f"  report: {args.report} ({summary.rows:,} rows)", out)
     return _finish(args, summary, {"input": where[0], "column": args.column,
-                                   "output": where[1], "report": args.report})
+                                   "output": where[1], "report": args.report,
+                                   **_parity_facts(args)})
+
+
+def _parity_facts(args: argparse.Namespace) -> dict[str, Any]:
+    """The parity convention a level run used, for the JSON summary."""
+    if not _levels_asked(args):
+        return {}
+    decision = getattr(args, "parity_decision", None)
+    if decision is None:
+        return {"parity": args.parity}
+    return {"parity": decision.convention, "parity_decided_by_row": decision.row}
 
 
 def _extra_columns(args: argparse.Namespace, prefix: str = "") -> OutputColumns:
@@ -368,7 +443,8 @@ def _normalize_to(args: argparse.Namespace, check: ConfigurationCheck | LevelChe
     same_db = bool(args.table) and to_db and same_database(args.input, output)
     source = _open_source(args, opened, writable=same_db,
                           tabular_output=not (not to_db and format_of(
-                              output, args.output_format) == "jsonl"))
+                              output, args.output_format, option="--output-format",
+                              written=True) in ("jsonl", "json")))
     value_at = _value_index(source, args)
     _locate_roles(source, args)
     extra = _extra_columns(args)
@@ -399,10 +475,13 @@ def _normalize_to(args: argparse.Namespace, check: ConfigurationCheck | LevelChe
         types = None
         if isinstance(source, ParquetSource):
             types = {f.name: f.type for f in source.schema if f.name != args.column}
-        sink = _file_sink(output, args.output_format, types=types, overwrite=args.overwrite)
+        envelope = source.envelope if isinstance(source, JsonSource) else None
+        sink = _file_sink(output, args.output_format, types=types, overwrite=args.overwrite,
+                          envelope=envelope)
         where = output
     writers.append((sink, normalized_rows(value_at, extra)))
-    summary = run(source, RowJob(check, args.cache_size), _role_columns(args), writers=writers,
+    source, job = _job(args, check, source, opened)
+    summary = run(source, job, _role_columns(args), writers=writers,
                   chunk_size=args.chunk_rows, jobs=args.jobs, progress=_progress(args),
                   keep_examples=max(0, args.examples))
     return summary, (source.label, where)
@@ -430,7 +509,8 @@ def _normalize_in_place(args: argparse.Namespace, check: ConfigurationCheck | Le
         writers.append((report, report_rows([value_at])))
     writers.append((sink, in_place_rows(value_at, extra)))
     roles = _role_columns(args)
-    summary = run(source, RowJob(check, args.cache_size), roles, writers=writers,
+    job = _job(args, check, source, opened)[1]  # a table is read again, never replayed
+    summary = run(source, job, roles, writers=writers,
                   chunk_size=args.chunk_rows, jobs=args.jobs, progress=_progress(args),
                   keep_examples=max(0, args.examples))
     assert KEY_COLUMN in source.columns

@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+import json
 import sqlite3
+import subprocess
 from pathlib import Path
 
 import pytest
 
-from .runner import cli, read_csv, write_csv
+from .runner import COMMAND, cli, read_csv, write_csv
 
 # (species, level designation, expected code or "ok"); terms and parents checked by hand
 # against the LS coupling rules, ground levels from NIST ASD.
@@ -91,5 +93,77 @@ def test_levels_in_sqlite(levels: Path, tmp_path: Path) -> None:
 def test_level_options_are_checked(levels: Path) -> None:
     done = cli("check", levels, "-c", "level", "--j-column", "J")
     assert done.returncode == 2 and "--j-column needs --term-column" in done.stderr
-    done = cli("check", levels, "-c", "level", "--level", "--fill-core")
-    assert done.returncode == 2 and len(done.stderr.strip().splitlines()) == 1
+    done = cli("check", levels, "-c", "level", "--level", "--parity", "sometimes")
+    assert done.returncode == 2 and "invalid choice: 'sometimes'" in done.stderr
+
+
+def test_repairs_and_level_columns_work_in_one_pass(tmp_path: Path) -> None:
+    # NIST ASD 'Ground Config.' cells leave closed inner shells out and come with a term
+    # column (Fe II ground level 3d6(5D)4s a6D9/2, N I 2p2(3P)3p 4D°7/2: NIST ASD)
+    data = write_csv(tmp_path / "ground.csv", ["species", "configuration", "term", "J"], [
+        ["Fe II", "3d6(5D)4s", "a6D", "9/2"],
+        ["N I", "2s2.2p2.(3P).3p", "4D*", "7/2"],
+        ["Na I", "2p6.3s", "2S", "1/2"],
+        ["Fe II", "3d6(5D)4sÂ¹", "a6D", "9/2"],  # mojibake of a superscript one
+    ])
+    out = tmp_path / "out.csv"
+    done = cli("normalize", data, "-c", "configuration", "-s", "species", "--term-column",
+               "term", "--j-column", "J", "--fill-core", "--repair-text", "-o", out)
+    assert done.returncode == 0, done.stderr
+    rows = read_csv(out)
+    assert [r["configuration"] for r in rows] == [
+        "[Ar] 3d6(5D) 4s1", "[He] 2s2 2p2(3P) 3p1", "[Ne] 3s1", "[Ar] 3d6(5D) 4s1"]
+    assert rows[0]["fixes"] == "fill-core:[Ar]"
+    assert rows[2]["fixes"] == "fill-core:1s2 2s2"
+    assert rows[3]["fixes"].split(",") == ["repair-text", "fill-core:[Ar]"]
+
+
+def test_the_parity_convention_is_decided_per_column(tmp_path: Path) -> None:
+    # C III 2s2p 3P° and 2p2 3P (NIST ASD), written without parity marks as many tables do
+    unmarked = write_csv(tmp_path / "unmarked.csv", ["configuration", "term", "J"], [
+        ["1s2.2s2", "1S", "0"], ["1s2.2s.2p", "3P", "1"], ["1s2.2p2", "3P", "2"]])
+    out = tmp_path / "out.csv"
+    done = cli("normalize", unmarked, "-c", "configuration", "--term-column", "term",
+               "--j-column", "J", "-o", out, "--summary-json", tmp_path / "s.json")
+    assert done.returncode == 0, done.stderr
+    assert "no row of 'term' writes an odd mark, so the column is read as unmarked" in \
+        done.stdout
+    assert [r["fixes"] for r in read_csv(out)] == ["", "parity-from-configuration", ""]
+    assert json.loads((tmp_path / "s.json").read_text())["parity"] == "unmarked"
+    # the same rows read as marked: the odd row fails, and the message does not call an
+    # unmarked term "marked even"
+    report = tmp_path / "r.csv"
+    done = cli("check", unmarked, "-c", "configuration", "--term-column", "term",
+               "--j-column", "J", "--parity", "marked", "-r", report)
+    assert done.returncode == 1
+    flagged = [r for r in read_csv(report) if r["status"] == "error"]
+    assert [r["code"] for r in flagged] == ["parity-mismatch"]
+    assert "has no odd mark, so it reads as even" in flagged[0]["message"]
+    assert "marked even" not in flagged[0]["message"]
+    # one odd mark anywhere in the column: the automatic convention reads it as marked
+    mixed = write_csv(tmp_path / "mixed.csv", ["configuration", "term", "J"], [
+        ["1s2.2s.2p", "3P*", "1"], ["1s2.2s.3p", "3P", "1"]])
+    done = cli("check", mixed, "-c", "configuration", "--term-column", "term", "--j-column",
+               "J", "-r", tmp_path / "r2.csv")
+    assert done.returncode == 1 and "row 1 of 'term' writes an odd mark" in done.stdout
+    assert [r["code"] for r in read_csv(tmp_path / "r2.csv")] == ["", "parity-mismatch"]
+
+
+def test_the_parity_convention_holds_for_standard_input() -> None:
+    # standard input cannot be read twice: the rows are held until the decision, none lost
+    done = subprocess.run([*COMMAND, "check", "-", "--input-format", "csv", "-c",
+                           "configuration", "--term-column", "term"],
+                          input="configuration,term\n2s.2p,3P\n2p2,3P\n", capture_output=True,
+                          text=True, check=False, timeout=120)
+    assert done.returncode == 0, done.stderr
+    assert "read as unmarked" in done.stdout and "rows read            2" in done.stdout
+
+
+def test_an_invalid_row_names_fixes_that_were_recorded_not_rewritten(tmp_path: Path) -> None:
+    # the parents of Fe II 3d6(5D)4s (NIST ASD) are recorded, not rewritten: the summary
+    # says so instead of showing a repaired text that does not exist
+    data = write_csv(tmp_path / "c.csv", ["configuration", "species"], [["3d6(5D)4s", "Fe"]])
+    done = cli("check", data, "-c", "configuration", "-s", "species")
+    assert done.returncode == 1
+    assert "recorded parents:(5D)" in done.stdout
+    assert "None" not in done.stdout
