@@ -20,6 +20,7 @@ __all__ = [
     "ConfspecError",
     "ConfspecPhysicsError",
     "ConfspecSyntaxError",
+    "ConfspecTypeError",
     "ErrorCode",
 ]
 
@@ -145,6 +146,10 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
      "An LS-coupling function (terms, hund_ground_term) was given a configuration with nlj "
      "subshells ('2p3/2^1'), whose j would be lost by LS coupling.",
      "Use confspec.jj_levels() for the J levels, or write the subshells as nl."),
+    ("several-open-subshells", "physics",
+     "seniority_terms() was given a configuration with more than one open subshell; "
+     "seniority belongs to the terms of a single l^w.",
+     "Pass each open subshell alone ('3d3', not '3d3 4s1')."),
     # -- level designations: configuration + term + J ------------------------------------
     ("term-not-allowed", "physics",
      "The term is not an LS term of the configuration ('2p2 1P'), or cannot be reached by "
@@ -179,6 +184,13 @@ ERROR_CODES: dict[str, ErrorCode] = _codes(
     ("scf-unavailable", "physics",
      "An SCF calculation was asked for but numpy or scipy is not installed.",
      "Install the extra: pip install \"confspec[scf]\"."),
+    ("wrong-type", "syntax",
+     "An argument is of a type the function does not take: text functions take a str; a "
+     "species is a Species, an Element, a species string or an atomic number; a "
+     "configuration is a Configuration, its notation text, or a species standing for its "
+     "ground state. The error is also a TypeError.",
+     "Pass one of the types the message lists (a NULL or NaN cell is missing data, not a "
+     "value: drop or fill it first)."),
 )
 
 
@@ -240,3 +252,8 @@ class ConfspecPhysicsError(ConfspecError):
     """The notation is readable but the content is impossible or inconsistent."""
 
     kind = "physics"
+
+
+class ConfspecTypeError(ConfspecSyntaxError, TypeError):
+    """An argument of the wrong type (``wrong-type``): both our error, with its code, and
+    the ``TypeError`` Python code expects."""

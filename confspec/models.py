@@ -29,7 +29,7 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from .data import elements as _elements
-from .errors import ConfspecError, ConfspecSyntaxError
+from .errors import ConfspecError, ConfspecSyntaxError, ConfspecTypeError
 from .notation.render import options_from_spec, render_configuration, render_species
 from .notation.resolve import canonical
 from .physics import (
@@ -42,7 +42,8 @@ from .physics import (
 )
 
 __all__ = ["CompactConfiguration", "Configuration", "ConfigurationRecord", "Element",
-           "HoleReference", "Species", "Subshell", "provide", "reference_occupancies"]
+           "HoleReference", "Species", "Subshell", "ground_configuration", "provide",
+           "reference_occupancies"]
 
 # -- what outer layers lend the models ----------------------------------------------------
 _PROVIDED: dict[str, Callable[..., Any]] = {}
@@ -545,14 +546,20 @@ class ConfigurationRecord(BaseModel):
 HoleReference: TypeAlias = "Configuration | Species | str"
 
 
+def ground_configuration(species: Species | str) -> Configuration:
+    """The ground configuration of a species, as the chemistry layer gives it (measured
+    where published, else by rule; see ``confspec.ground_level`` for the provenance)."""
+    result: Configuration = _provided("ground_state")(species)
+    return result
+
+
 def _reference_configuration(reference: HoleReference) -> Configuration:
     if isinstance(reference, Configuration):
         return reference
     if isinstance(reference, (Species, str)):
-        result: Configuration = _provided("ground_state")(reference)
-        return result
-    raise TypeError(f"a hole reference is a Configuration or a species, not "
-                    f"{type(reference).__name__}")
+        return ground_configuration(reference)
+    raise ConfspecTypeError("wrong-type", f"a hole reference is a Configuration or a "
+                            f"species, not {type(reference).__name__}")
 
 
 def _reference_quads(reference: HoleReference) -> list[tuple[int, int, int, int]]:

@@ -15,15 +15,22 @@ from functools import lru_cache
 from typing import Any
 
 from .data import elements as _elements
-from .errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
-from .models import Configuration, Element, HoleReference, Species, reference_occupancies
+from .errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError, ConfspecTypeError
+from .models import (
+    Configuration,
+    Element,
+    HoleReference,
+    Species,
+    ground_configuration,
+    reference_occupancies,
+)
 from .notation.clean import Cleaned, clean, remap, species_noise
 from .notation.fastpath import fast_occupancies
 from .notation.read import MAX_INPUT_LENGTH, OUTER_SPACE, precheck, read_configuration
 from .physics import Occupancy
 
-__all__ = ["MAX_INPUT_LENGTH", "as_configuration", "as_species", "normalize", "parse",
-           "parse_species", "validate"]
+__all__ = ["MAX_INPUT_LENGTH", "ConfigurationLike", "as_configuration", "as_species",
+           "normalize", "parse", "parse_species", "validate"]
 
 
 @lru_cache(maxsize=65_536)
@@ -46,24 +53,73 @@ def as_species(species: Species | Element | str | int) -> Species:
     if isinstance(species, Element):
         return Species.model_construct(element=species, charge=0)
     if isinstance(species, str):
-        return parse_species(species)
+        try:
+            return parse_species(species)
+        except ConfspecError as err:
+            if not _reads_as_configuration(species):
+                raise
+            raise type(err)(err.code, f"{err.message}; the text reads as a configuration, "
+                            "which does not say which element it belongs to: give the "
+                            "species", position=err.position, text=err.text) from None
     if isinstance(species, int) and not isinstance(species, bool):
         row = _elements.by_number(species)
         if row is None:
             raise ConfspecPhysicsError("unknown-element", f"no element has Z = {species}",
                                        text=str(species))
         return Species.model_construct(element=_element(row.symbol, 0, row.symbol), charge=0)
-    raise TypeError(f"expected a Species or a species string such as 'Fe2+', not "
-                    f"{type(species).__name__}")
+    why = ("; a configuration does not say which element it belongs to"
+           if isinstance(species, Configuration) else "")
+    raise ConfspecTypeError(
+        "wrong-type", "expected a species (a Species, an Element, a species string such as "
+        f"'Fe2+' or 'Fe III', or an atomic number), not {type(species).__name__}{why}")
 
 
-def as_configuration(configuration: Configuration | str) -> Configuration:
-    """The one coercion of a configuration argument: a Configuration or notation text."""
+def _reads_as_configuration(text: str) -> bool:
+    try:
+        parse(text)
+    except ConfspecError:
+        return False
+    return True
+
+
+#: what a configuration argument may be: the configuration, or a species for its ground state
+ConfigurationLike = Configuration | Species | Element | str | int
+
+
+def as_configuration(configuration: ConfigurationLike) -> Configuration:
+    """The one coercion of a configuration argument: a Configuration, its notation text, or
+    a species (a Species, an Element, a species string such as ``"Fe3+"`` or ``"Fe III"``,
+    an atomic number) standing for its ground configuration, measured where published
+    (``ground_level`` gives the provenance).
+
+    Text is read as a configuration first; only text that is no configuration is read as a
+    species. When it is neither, the error is the reading that got further."""
     if isinstance(configuration, Configuration):
         return configuration
     if isinstance(configuration, str):
-        return parse(configuration)
-    raise TypeError(f"expected a Configuration or a str, not {type(configuration).__name__}")
+        try:
+            return parse(configuration)
+        except ConfspecError as as_notation:
+            try:
+                species = parse_species(configuration)
+            except ConfspecError as as_species_text:
+                raise _further(as_notation, as_species_text) from None
+            return ground_configuration(species)
+    if isinstance(configuration, (Species, Element)) or (
+            isinstance(configuration, int) and not isinstance(configuration, bool)):
+        return ground_configuration(as_species(configuration))
+    raise ConfspecTypeError(
+        "wrong-type", "expected a configuration (a Configuration or its notation text) or a "
+        "species standing for its ground state (a Species, a species string such as 'Fe3+', "
+        f"an atomic number), not {type(configuration).__name__}")
+
+
+def _further(first: ConfspecError, second: ConfspecError) -> ConfspecError:
+    """Of two readings of one text, the error of the one that read further (the first on a
+    tie): 'Fe 3+' fails as a species later than as a configuration."""
+    def reach(err: ConfspecError) -> int:
+        return -1 if err.position is None else err.position
+    return second if reach(second) > reach(first) else first
 
 
 def _hole_reference(reference: HoleReference | None, species: Species | str | None,

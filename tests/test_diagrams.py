@@ -88,8 +88,10 @@ def test_text_input_errors_are_confspec_errors() -> None:
     with pytest.raises(ConfspecError) as info:
         box_diagram_text("2p7")
     assert info.value.code == "pauli-limit"
-    with pytest.raises(TypeError):
-        box_diagram_text(42)  # type: ignore[arg-type]
+    # an atomic number stands for the ground configuration (Mo: [Kr] 4d5 5s1, NIST ASD)
+    assert box_diagram_text(42) == box_diagram_text("[Kr] 4d5 5s1")
+    with pytest.raises(TypeError):  # our wrong-type error is also a TypeError
+        box_diagram_text(4.2)  # type: ignore[arg-type]
 
 
 # -- Hund's rule ---------------------------------------------------------------------------

@@ -34,21 +34,26 @@ from .scf import (
 )
 from .shielding import ShieldingResult, effective_charge
 from .terms import (
+    JJLevel,
     JKTerm,
+    SeniorityTerm,
     Term,
     allowed_j,
     hund_ground_term,
     jj_levels,
+    jj_terms,
     parse_term,
+    seniority_terms,
     term_multiplicities,
     terms,
 )
 
-__all__ = ["ConfigurationEnergy", "ConfigurationRanking", "Excitation", "GroundLevel", "JKTerm",
-           "SCFConvergenceError", "SCFDifference", "SCFOrbital", "SCFResult", "ShieldingResult",
+__all__ = ["ConfigurationEnergy", "ConfigurationRanking", "Excitation", "GroundLevel", "JJLevel",
+           "JKTerm", "SCFConvergenceError", "SCFDifference", "SCFOrbital", "SCFResult",
+           "SeniorityTerm", "ShieldingResult",
            "Term", "allowed_j", "d_electron_count", "delta_scf", "descriptor_table",
            "descriptors", "effective_charge", "excitations", "ground_level", "ground_state",
-           "hund_ground_term", "ionization_energy", "is_ground_state", "jj_levels",
+           "hund_ground_term", "ionization_energy", "is_ground_state", "jj_levels", "jj_terms",
            "lowest_configuration", "parse_term", "radial_density", "radial_function",
-           "radial_nodes", "scf",
+           "radial_nodes", "scf", "seniority_terms",
            "term_multiplicities", "terms"]

@@ -23,7 +23,12 @@ from typing import TYPE_CHECKING, Any
 from pydantic import BaseModel, ConfigDict, Field, model_validator
 from pydantic_core import PydanticCustomError
 
-from ..errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
+from ..errors import (
+    ConfspecError,
+    ConfspecPhysicsError,
+    ConfspecSyntaxError,
+    ConfspecTypeError,
+)
 from ..notation.scripts import (
     SUBSCRIPT_DIGITS,
     SUPERSCRIPT_DIGITS,
@@ -35,10 +40,11 @@ from ..physics import Parity, pauli_limit
 from ..reading import as_configuration
 
 if TYPE_CHECKING:
-    from ..models import Configuration
+    from ..models import Configuration, Subshell
 
-__all__ = ["TERM_LETTERS", "JKTerm", "Term", "allowed_j", "hund_ground_term", "jj_levels",
-           "parse_term", "terms"]
+__all__ = ["TERM_LETTERS", "JJLevel", "JKTerm", "SeniorityTerm", "Term", "allowed_j",
+           "hund_ground_term", "jj_levels", "jj_terms", "parse_term", "seniority_terms",
+           "terms"]
 
 #: Term letters for L = 0, 1, 2, ... (j is skipped). Larger L is written ``[L]``, e.g. ``2[17]``.
 TERM_LETTERS = "SPDFGHIKLMNOQRTUV"
@@ -592,6 +598,24 @@ def _ls_only(config: Configuration) -> Configuration:
     return config
 
 
+def _subshell_pairs(pairs: object) -> list[tuple[int, int]]:
+    """(l, electrons) pairs as given, or the wrong-type error naming what is expected."""
+    try:
+        out = [(int(l), int(w)) for l, w in pairs]  # type: ignore[attr-defined]
+    except (TypeError, ValueError):
+        raise ConfspecTypeError(
+            "wrong-type", "expected a configuration, a species or (l, electrons) pairs, not "
+            f"{type(pairs).__name__}") from None
+    for l, w in out:
+        if l > 20:  # the term letters end long before; the work grows with l
+            raise ConfspecSyntaxError("number-too-large", f"l = {l} is beyond the l = 20 "
+                                      "that term tables reach", text=str((l, w)))
+        if l < 0 or not 0 <= w <= pauli_limit(l):
+            raise ConfspecPhysicsError("pauli-limit", f"a subshell with l = {l} cannot hold "
+                                       f"{w} electrons", text=str((l, w)))
+    return out
+
+
 def term_multiplicities(configuration: Configuration | str | Iterable[tuple[int, int]]
                         ) -> dict[tuple[int, int], int]:
     """How often each (2S+1, L) occurs among the LS terms of a configuration (or of a list
@@ -601,7 +625,7 @@ def term_multiplicities(configuration: Configuration | str | Iterable[tuple[int,
     1
     """
     open_subshells = _open(as_configuration(configuration)) if isinstance(
-        configuration, (str, BaseModel)) else configuration
+        configuration, (str, int, BaseModel)) else _subshell_pairs(configuration)
     table: Table = {(0, 0): 1}
     for l, electrons in open_subshells:
         table = _convolve(table, subshell_table(l, electrons))
@@ -740,3 +764,255 @@ def jj_levels(configuration: Configuration | str) -> dict[Fraction, int]:
         table = out
     return {Fraction(M2, 2): table[M2] - table.get(M2 + 2, 0)
             for M2 in sorted(table) if M2 >= 0 and table[M2] - table.get(M2 + 2, 0)}
+
+
+def _m_counts(s: Subshell) -> dict[int, int]:
+    """Counts of 2M over the states of one subshell: by its j states for nlj, by its (ML, MS)
+    states (2M = 2ML + 2MS) for nl."""
+    if s.j is not None:
+        return _m_table(s.j2, s.electrons)
+    part: dict[int, int] = defaultdict(int)
+    for (ML, MS2), c in subshell_table(s.l, s.electrons).items():
+        part[2 * ML + MS2] += c
+    return dict(part)
+
+
+def _j_counts(table: dict[int, int]) -> dict[Fraction, int]:
+    """Levels of each J from counts of 2M: N(J) = n(M = J) − n(M = J + 1)."""
+    return {Fraction(M2, 2): table[M2] - table.get(M2 + 2, 0)
+            for M2 in sorted(table) if M2 >= 0 and table[M2] - table.get(M2 + 2, 0)}
+
+
+class JJLevel(BaseModel):
+    """A level in jj coupling: the J of each open subshell, coupled in the written order.
+
+    Each open subshell has its own angular momentum J_i (an nlj subshell its j states; an
+    open nl subshell taken whole, its J values as an LS subshell has them); J_1 and J_2
+    couple to J_12, J_12 with J_3 to J_123, and so on to J. Written as level tables write
+    jj levels: ``(1/2,3/2)2`` for two open subshells, with the odd mark after the bracket
+    (``(3/2,1/2)°1``); the J alone (``2``) for one open subshell (or none); and, our
+    convention for three or more, the intermediate J after each bracket:
+    ``((1/2,3/2)1,1/2)3/2``.
+
+    >>> level = JJLevel(subshell_j=(Fraction(1, 2), Fraction(3, 2)), J=2, parity="odd")
+    >>> str(level), level.weight
+    ('(1/2,3/2)°2', 5)
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    subshell_j: tuple[Fraction, ...] = Field(
+        description="J_i of each open subshell, in the order they couple")
+    intermediate: tuple[Fraction, ...] = Field(
+        default=(), description="J_12, J_123, ...: the coupled J before each further subshell "
+        "(empty for at most two open subshells)")
+    J: Fraction = Field(description="total angular momentum")
+    parity: Parity = "even"
+
+    @model_validator(mode="after")
+    def _check_coupling(self) -> JJLevel:
+        problem = _jj_problem(self.subshell_j, self.intermediate, self.J)
+        if problem is not None:
+            raise PydanticCustomError("invalid-term", "{message}", {"message": problem})
+        return self
+
+    @property
+    def weight(self) -> int:
+        """Statistical weight 2J + 1."""
+        return int(2 * self.J + 1)
+
+    @property
+    def is_odd(self) -> bool:
+        return self.parity == "odd"
+
+    def format(self, style: str = "plain") -> str:
+        """``plain`` (1/2,3/2)°2, ``ascii`` (1/2,3/2)o2, ``latex`` (1/2,3/2)^{\\circ}_{2},
+        ``html`` (1/2,3/2)<sup>o</sup><sub>2</sub>."""
+        marks = {"plain": ("°", "{}"), "ascii": ("o", "{}"), "latex": ("^{\\circ}", "_{{{}}}"),
+                 "html": ("<sup>o</sup>", "<sub>{}</sub>")}
+        if style not in marks:
+            raise ConfspecSyntaxError(
+                "unknown-option", f"unknown jj level style {style!r}; use one of: "
+                + ", ".join(marks))
+        mark, j_template = marks[style]
+        j = j_template.format(j_text(self.J))
+        if len(self.subshell_j) < 2:
+            return j
+        coupled = f"({j_text(self.subshell_j[0])},{j_text(self.subshell_j[1])})"
+        for inner, outer in zip(self.intermediate, self.subshell_j[2:], strict=True):
+            coupled = f"({coupled}{j_text(inner)},{j_text(outer)})"
+        return coupled + (mark if self.is_odd else "") + j
+
+    def __format__(self, spec: str) -> str:
+        return self.format(spec) if spec else str(self)
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"JJLevel('{self}')"
+
+
+def _jj_problem(subshell_j: tuple[Fraction, ...], intermediate: tuple[Fraction, ...],
+                J: Fraction) -> str | None:
+    """Why a chain of J couplings is impossible (triangle rule at each step), or None."""
+    for value in (*subshell_j, *intermediate, J):
+        if value < 0 or value.denominator not in (1, 2):
+            return f"{value} is not a non-negative integer or half-integer"
+    if len(intermediate) != max(len(subshell_j) - 2, 0):
+        return (f"{len(subshell_j)} open subshells need {max(len(subshell_j) - 2, 0)} "
+                f"intermediate J values, not {len(intermediate)}")
+    if not subshell_j:
+        return None if J == 0 else "a configuration without open subshells has J = 0"
+    if len(subshell_j) == 1:
+        return None if subshell_j[0] == J else "with one open subshell, J is its J"
+    chain = (subshell_j[0], *intermediate, J)
+    for left, added, result in zip(chain[:-1], subshell_j[1:], chain[1:], strict=True):
+        if not abs(left - added) <= result <= left + added or (left + added - result
+                                                                ).denominator != 1:
+            return (f"{j_text(left)} and {j_text(added)} cannot couple to {j_text(result)}: "
+                    f"the result runs over |J1 − J2| … J1 + J2")
+    return None
+
+
+def jj_terms(configuration: Configuration | str) -> dict[JJLevel, int]:
+    """Every level of a configuration in jj coupling, with how often each arises.
+
+    The open subshells couple in the written order (closed subshells add nothing): an nlj
+    subshell with its J_i values (``6p3/2^2``: 0 and 2), an open nl subshell taken whole
+    with the J values of its LS levels (``3d2``: 0 twice, 1, 2 twice, 3, 4), which counts
+    the states correctly without splitting it into j components. A level repeats when a
+    subshell has one J_i more than once (``4f7/2^4`` has J_i = 2 and 4 twice each); the sum
+    over the levels of count × (2J + 1) is the number of microstates.
+
+    No lowest level is given: Hund's rules have no general analogue in jj coupling (see the
+    jj coupling section of the chemistry docs).
+
+    >>> {str(level): n for level, n in jj_terms("2p1/2^1 3d3/2^1").items()}
+    {'(1/2,3/2)°1': 1, '(1/2,3/2)°2': 1}
+    >>> [str(level) for level in jj_terms("6p3/2^2")]
+    ['0', '2']
+    """
+    config = as_configuration(configuration)
+    groups = [s for s in config.subshells if 0 < s.electrons < s.capacity]
+    State = tuple[tuple[Fraction, ...], tuple[Fraction, ...], Fraction]
+    states: dict[State, int] = {((), (), Fraction(0)): 1}
+    for index, subshell in enumerate(groups):
+        own = _j_counts(_m_counts(subshell))
+        following: dict[State, int] = defaultdict(int)
+        for (js, inner, J), count in states.items():
+            for j, repeats in own.items():
+                if index == 0:
+                    following[((j,), (), j)] += count * repeats
+                    continue
+                chain = (*inner, J) if index >= 2 else inner
+                low = abs(J - j)
+                for step in range(int(J + j - low) + 1):
+                    following[((*js, j), chain, low + step)] += count * repeats
+        states = following
+        if len(states) > MAX_LISTED_TERMS:
+            raise ConfspecPhysicsError(
+                "too-many-terms", f"{config} has more than {MAX_LISTED_TERMS:,} distinct jj "
+                "levels; use jj_levels() for the count of each J")
+    parity = config.parity
+    return {JJLevel.model_construct(subshell_j=js, intermediate=inner, J=J, parity=parity): n
+            for (js, inner, J), n in sorted(states.items())}
+
+
+# ---------------------------------------------------------------------------- seniority
+class SeniorityTerm(BaseModel):
+    """An LS term of l^w with Racah's seniority v: the number of electrons not coupled in
+    pairs to ¹S, i.e. the w at which the term first appears in l^v (Racah 1943).
+
+    ``index`` numbers terms that repeat with the same (v, S, L), as 2H twice at v = 3 in
+    f3 (Nielson & Koster tell them apart by Racah's W and U labels; we number them 1, 2,
+    ... in our own order); it is None when (v, S, L) is unique. Written with the seniority
+    after the term: ``2D (v=3)``, ``2H (v=3, 2)``.
+
+    >>> [str(t) for t in seniority_terms("3d3") if t.term.L == 2]
+    ['2D (v=1)', '2D (v=3)']
+    """
+
+    model_config = ConfigDict(frozen=True, extra="forbid")
+
+    term: Term = Field(description="the LS term, without J")
+    seniority: int = Field(ge=0, description="Racah's seniority v")
+    index: int | None = Field(default=None, ge=1,
+                              description="1, 2, ... when (v, S, L) repeats; else None")
+
+    def format(self, style: str = "plain") -> str:
+        """``plain`` 2D (v=3), ``latex`` {}^{2}_{3}\\mathrm{D} (the seniority as a left
+        subscript, as in Racah's papers; a repeat index follows in parentheses)."""
+        extra = "" if self.index is None else f", {self.index}"
+        if style == "plain":
+            return f"{self.term} (v={self.seniority}{extra})"
+        if style == "latex":
+            mark = "^{\\circ}" if self.term.is_odd else ""
+            repeat = "" if self.index is None else f"({self.index})"
+            return (f"{{}}^{{{self.term.multiplicity}}}_{{{self.seniority}}}"
+                    f"\\mathrm{{{self.term.letter}}}{mark}{repeat}")
+        raise ConfspecSyntaxError(
+            "unknown-option", f"unknown seniority term style {style!r}; use one of: plain, "
+            "latex")
+
+    def __format__(self, spec: str) -> str:
+        return self.format(spec) if spec else str(self)
+
+    def __str__(self) -> str:
+        return self.format()
+
+    def __repr__(self) -> str:
+        return f"SeniorityTerm('{self}')"
+
+
+@cache
+def _seniority_counts(l: int, electrons: int) -> dict[tuple[int, int, int], int]:
+    """(v, 2S+1, L) -> count for l^electrons: the terms of seniority v are those of l^v
+    not already in l^(v−2), counted with repeats (Racah 1943; common practice). A subshell
+    more than half full has the seniorities of its holes."""
+    w = min(electrons, pauli_limit(l) - electrons)
+    out: dict[tuple[int, int, int], int] = {}
+    for v in range(w % 2, w + 1, 2):
+        new = term_multiplicities([(l, v)])
+        old = term_multiplicities([(l, v - 2)]) if v >= 2 else {}
+        for (multiplicity, L), n in new.items():
+            fresh = n - old.get((multiplicity, L), 0)
+            if fresh < 0:  # cannot happen: l^(v−2) × ¹S pair embeds in l^v
+                raise AssertionError(f"seniority count below zero for l = {l}, v = {v}")
+            if fresh:
+                out[(v, multiplicity, L)] = fresh
+    return out
+
+
+def seniority_terms(configuration: Configuration | str) -> list[SeniorityTerm]:
+    """The LS terms of a configuration with one open subshell, each with its seniority.
+
+    Computed, not tabulated: count(l^w, v) = count(l^v) − count(l^(v−2)) for v ≤ w,
+    v ≡ w (mod 2), v ≤ min(w, 4l + 2 − w). Listed in the order of :func:`terms` (high
+    multiplicity, then high L), low seniority first within one (S, L), so that
+    ``[t.term for t in seniority_terms(c)] == terms(c)``. Closed shells give ``1S (v=0)``.
+    Several open subshells (each would carry its own seniority) are refused with
+    ``several-open-subshells``; nlj subshells with ``jj-configuration``.
+
+    >>> [str(t) for t in seniority_terms("2p2")]
+    ['3P (v=2)', '1D (v=2)', '1S (v=0)']
+    """
+    config = _ls_only(as_configuration(configuration))
+    open_subshells = _open(config)
+    if len(open_subshells) > 1:
+        raise ConfspecPhysicsError(
+            "several-open-subshells", f"{config} has {len(open_subshells)} open subshells; "
+            "seniority belongs to the terms of one l^w (take each open subshell alone)")
+    if not open_subshells:
+        return [SeniorityTerm.model_construct(term=make_term(1, 0, config.parity, None),
+                                              seniority=0, index=None)]
+    l, electrons = open_subshells[0]
+    counts = _seniority_counts(l, electrons)
+    out: list[SeniorityTerm] = []
+    for (v, multiplicity, L), n in sorted(counts.items(),
+                                          key=lambda kv: (-kv[0][1], -kv[0][2], kv[0][0])):
+        term = make_term(multiplicity, L, config.parity, None)
+        out.extend(SeniorityTerm.model_construct(term=term, seniority=v,
+                                                 index=None if n == 1 else k + 1)
+                   for k in range(n))
+    return out

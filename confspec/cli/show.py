@@ -11,6 +11,7 @@ from typing import Any
 from .. import ConfspecError, Element, parse, parse_level, parse_species, validate_level
 from .. import validate as validate_text
 from ..notation.render import STYLES
+from ..physics import implied_inner_subshells
 from .common import brief, chemistry_function, indent, provenance, say
 
 __all__ = ["run"]
@@ -82,7 +83,7 @@ def run(args: argparse.Namespace) -> int:
         say("  orbital boxes (filling order; arrows by Hund's rule):")
         say(indent(box_diagram_text(config, order="filling"), 4))
     if config is not None:
-        _show_chemistry(config, species)
+        _show_chemistry(config, species, from_level=level is not None)
     if config is not None and getattr(args, "scf", False):
         from .scf import scf_section
 
@@ -136,17 +137,34 @@ def _try_species(text: str) -> Any:
         return None
 
 
-def _show_chemistry(config: Any, species: Any) -> None:
+def _show_chemistry(config: Any, species: Any, *, from_level: bool = False) -> None:
     """Ground-state comparison, terms, Hund term and Slater shielding (where this build has
-    the chemistry layer). Without a species, the neutral atom of the electron count."""
+    the chemistry layer). Without a species, a whole configuration (one that starts at 1s)
+    is compared with the neutral atom of its electron count, and says so; a level
+    designation or a configuration without its inner shells names no element (tables leave
+    closed shells out), so the species stays unknown."""
     lines: list[str] = []
     assumed = ""
-    if species is None and config.electron_count > 0:
+    whole = any(sub.n == 1 for sub in config.subshells)
+    if species is None and config.electron_count > 0 and whole and not from_level:
         try:
             species = parse_species(_element_symbol(config.electron_count))
-            assumed = " (the neutral atom with this many electrons)"
+            assumed = " (assumed: the neutral atom with this many electrons)"
         except (ConfspecError, LookupError):
             species = None
+    elif species is None:
+        why = ("a level designation does not name its element" if from_level else
+               "the inner shells are not written, so the electron count names no element")
+        lines.append(f"  species        unknown ({why});")
+        lines.append(f"  {'':<14} give --species for the ground state and shielding")
+    if species is not None and config.electron_count != species.electron_count:
+        inner = implied_inner_subshells({(sub.n, sub.l) for sub in config.subshells},
+                                        species.electron_count - config.electron_count)
+        if inner:  # tables leave closed inner shells out: the chemistry needs them back
+            core = type(config).from_checked(list(inner))
+            config = type(config).from_checked([*inner, *config.occupancies])
+            lines.append(f"  inner shells   {core.format(core='expand')} implied (closed and "
+                         f"not written, as level tables do): {config}")
     ground_level = chemistry_function("ground_level")
     if species is not None and ground_level is not None:
         try:

@@ -18,7 +18,16 @@ from typing import Any
 
 from pydantic import AliasChoices, BaseModel, ConfigDict, Field
 
-from ..chemistry.terms import TERM_STYLES, JKTerm, Term, make_term, read_term, term_keys
+from ..chemistry.terms import (
+    TERM_STYLES,
+    JKTerm,
+    Term,
+    jj_levels,
+    make_term,
+    read_term,
+    seniority_terms,
+    term_keys,
+)
 from ..errors import ConfspecError, ConfspecPhysicsError, ConfspecSyntaxError
 from ..models import Configuration, Species
 from ..notation.render import ORDER_KEYS, largest_core, style_of, token_text
@@ -280,6 +289,8 @@ def _read_clean(text: str, accept_uppercase: bool
                 not _seniority_problems(items[start:end], int(parent_j), position, text):
             # not a J of the term but a possible seniority: the opacity project's 3d5(6S5)
             seniorities.append(token)
+            problems.extend(_term_seniority_problems(items[start], parent_term, int(parent_j),
+                                                     position, text))
             parent_j = None
         if parent_j is not None and parent_j not in parent_term.without_j().allowed_j():
             raise ConfspecPhysicsError(
@@ -357,6 +368,24 @@ def _seniority_problems(items: Sequence[RawItem], v: int, position: int, text: s
     return [ConfspecPhysicsError(
         "parent-not-allowed", f"seniority {v} is impossible for {item.n}{item.letter}{w}; "
         f"possible: {', '.join(possible)}", position=position, text=text)]
+
+
+def _term_seniority_problems(item: RawItem, term: Term, v: int, position: int, text: str
+                             ) -> list[ConfspecError]:
+    """A seniority written after a parent term (``3d5(4P3)``) must be one that term has in
+    that subshell: 4P of d5 has v = 3 only (Racah's rule, computed by seniority_terms)."""
+    w = item.count if item.count is not None else 1
+    subshell = f"{item.n}{item.letter.lower()}{w}"
+    try:
+        found = sorted({t.seniority for t in seniority_terms(subshell)
+                        if (t.term.multiplicity, t.term.L) == (term.multiplicity, term.L)})
+    except ConfspecError:
+        return []  # the subshell itself is wrong: the configuration's check names it
+    if not found or v in found:
+        return []  # a term the subshell lacks is reported as parent-not-allowed later
+    return [ConfspecPhysicsError(
+        "parent-not-allowed", f"the parent {term.without_j()} of {subshell} has seniority "
+        + " or ".join(str(s) for s in found) + f", not {v}", position=position, text=text)]
 
 
 def _with_j(term: Term | JKTerm | None, J: Fraction) -> Term | JKTerm | None:
@@ -577,9 +606,13 @@ def _consistency(level: Level, context: dict[str, Any], species: Species | None,
         problems.extend(_jk_problems(level, term, J, context, unmarked))
     elif term is not None:
         key = (term.multiplicity - 1, term.L)
-        if allowed_final is None:
-            allowed_final = term_keys(config)
-        if key not in allowed_final:
+        if config.is_relativistic:
+            # nlj subshells: the LS term is only a label (S and L are no quantum numbers of
+            # a jj-coupled level), so only J is checked, against the J values of the
+            # configuration in jj coupling; the label's own |L − S| … L + S check stays
+            problems.extend(_jj_j_problems(config, J, context["term_at"], text))
+        elif key not in (allowed_final := term_keys(config) if allowed_final is None
+                         else allowed_final):
             how = ("by coupling its parents with the electrons after them" if level.parents
                    else "as a term of " + str(config))
             problems.append(ConfspecPhysicsError(
@@ -644,6 +677,19 @@ def _jk_problems(level: Level, term: JKTerm, J: Fraction | None, context: dict[s
             + ", ".join(j_text(j) for j in term.allowed_j()), position=at, text=text))
     wrong = _parity_problem(term, str(config), config.parity, unmarked, at, text)
     return problems if wrong is None else [*problems, wrong]
+
+
+def _jj_j_problems(config: Configuration, J: Fraction | None, at: int | None, text: str
+                   ) -> list[ConfspecError]:
+    """J of a level whose configuration has nlj subshells, against its jj levels."""
+    if J is None:
+        return []
+    possible = jj_levels(config)
+    if J in possible:
+        return []
+    return [ConfspecPhysicsError(
+        "j-not-allowed", f"J = {j_text(J)} is not a J of {config} in jj coupling: "
+        + ", ".join(j_text(j) for j in possible), position=at, text=text)]
 
 
 def _implied_core(config: Configuration, electrons: int) -> tuple[tuple[int, int, int], ...] | None:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from collections.abc import Callable
 
-from ..errors import MAX_INPUT_LENGTH, ConfspecError, ConfspecSyntaxError
+from ..errors import MAX_INPUT_LENGTH, ConfspecError, ConfspecSyntaxError, ConfspecTypeError
 from ..physics import Occupancy
 from .clean import Cleaned, clean, is_missing_marker, remap
 from .fastpath import fast_raw
@@ -67,7 +67,8 @@ def _redecoded(text: str) -> str | None:
 
 def precheck(text: object, what: str) -> str:
     if not isinstance(text, str):
-        raise TypeError(f"{what} must be a str, not {type(text).__name__}")
+        raise ConfspecTypeError("wrong-type", f"the {what} must be a str, not "
+                                f"{type(text).__name__}")
     if len(text) > MAX_INPUT_LENGTH:
         raise ConfspecSyntaxError(
             "too-long", f"{len(text)} characters is over the limit of {MAX_INPUT_LENGTH}",

@@ -140,6 +140,10 @@ NOT_ROW_CODES = {
     "scf-unavailable": "the SCF solver without numpy/scipy, not a cell check",
     "not-d-block": "a chemistry question (d-electron counts), not a cell check",
     "d-count-out-of-range": "a chemistry question (d-electron counts), not a cell check",
+    "several-open-subshells": "seniority of one open subshell (confspec.seniority_terms), "
+                              "not a cell check",
+    "wrong-type": "a Python argument of the wrong type (tests/chemistry/test_argument_shapes.py); "
+                  "cells are always text",
     "empty-subshell": "a shielding question, not a cell check",
     "no-reference-data": "a reference-table lookup, not a cell check",
 }
