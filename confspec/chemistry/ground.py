@@ -1,8 +1,10 @@
 """Ground states of atoms and ions, each with its provenance.
 
 Where a published ground level is shipped (``data/ground_levels.csv`` for the neutral atoms,
-``data/ion_ground_levels.csv`` for ions) it is used as is, with its status (measured or
-predicted) and source. Every other ion is derived by rule from the neutral atom's ground
+``data/ion_ground_levels.csv`` for cations, ``data/anion_ground_levels.csv`` for singly
+charged anions) it is used as is, with its status (measured or predicted) and source. The
+anion table also says which anions are known *not* to be bound; an anion it does not list
+is "not established". Every other ion is derived by rule from the neutral atom's ground
 configuration and marked ``provenance="rule"``:
 
 * cations lose electrons from the subshell of highest n first, and within one n from the
@@ -12,7 +14,8 @@ configuration and marked ``provenance="rule"``:
 * anions gain electrons in the Madelung order (n + l, then n).
 
 The rule is an approximation (common practice, no source): free ions often differ (V⁺ is
-3d4, not the rule's 3d3 4s1), which is why measured rows override it.
+3d4, not the rule's 3d3 4s1; Ca⁻ binds a 4p electron, not a 3d one), which is why measured
+rows override it and why every rule-based result names the classes where it is known to fail.
 """
 
 from __future__ import annotations
@@ -33,9 +36,13 @@ from ..reading import as_configuration, as_species
 from .terms import Term, hund_ground_term, parse_ls_term
 
 __all__ = [
+    "RULE_FAILURE_CLASSES",
+    "AnionRow",
+    "Binding",
     "Excitation",
     "GroundLevel",
     "Provenance",
+    "anion_rows",
     "d_electron_count",
     "excitations",
     "ground_level",
@@ -44,6 +51,10 @@ __all__ = [
 ]
 
 Provenance = Literal["measured", "predicted", "rule"]
+#: Whether the species exists as a bound free ion: atoms and cations always are; an anion
+#: is bound when a binding energy is measured, unbound when a source says it is not, and
+#: "not established" when neither is shipped.
+Binding = Literal["bound", "unbound", "not established"]
 
 #: A species argument: a Species, an Element, a species string or an atomic number.
 SpeciesLike = Species | Element | str | int
@@ -53,6 +64,17 @@ _CATION_RULE = ("rule: electrons removed from the neutral atom's ground configur
                 "noble-gas core first; term by Hund's rules")
 _ANION_RULE = ("rule: electrons added to the neutral atom's ground configuration in the "
                "Madelung order (n + l, then n); term by Hund's rules")
+_NEGATIVE_IONS = ("Andersen, Haugen & Hotop, 'Binding Energies in Atomic Negative Ions: III', "
+                  "J. Phys. Chem. Ref. Data 28, 1511 (1999)")
+#: Where the ion rule is known to go wrong (common practice, no source; the shipped
+#: measured rows show each class: Ca-, Sc-, La-, Ce2+, U2+, Ac+, Ni+, Ti+, V+).
+RULE_FAILURE_CLASSES = (
+    "alkaline-earth and group-3 anions (Ca-, Sr-, Ba-, Sc-, Y-, La- bind a p electron, "
+    "not a d one)",
+    "lanthanide and actinide ions (4f, 5d, 6s and 5f, 6d, 7s lie close together)",
+    "ions where d and s lie close (Ni, Ti+, V+, La, Th: the free ion keeps d electrons "
+    "the rule removes, or the reverse)",
+)
 
 
 class GroundLevel(BaseModel):
@@ -63,7 +85,11 @@ class GroundLevel(BaseModel):
     ``"rule"`` (derived by the ion rules of this module, an approximation). ``hund_term`` is
     what Hund's rules give for the configuration when that differs from the listed term
     (Ce: measured ¹G°₄, Hund ³H°₄); it is None when they agree. ``caution`` says in words
-    why a value is an estimate; it is None for measured values.
+    why a value is an estimate or unchecked; it is None for measured values checked
+    against their source. ``binding`` says whether the species exists as a bound free ion
+    (an unbound anion still gets the rule's configuration, with a caution saying it does
+    not exist). ``from_memory`` is True when the shipped row was transcribed from memory
+    and not yet checked against its publication; ``note`` carries the row's own remarks.
     """
 
     model_config = ConfigDict(frozen=True, extra="forbid")
@@ -76,16 +102,28 @@ class GroundLevel(BaseModel):
     note: str = ""
     hund_term: Term | None = None
     caution: str | None = None
+    binding: Binding = "bound"
+    from_memory: bool = False
 
     @property
     def is_measured(self) -> bool:
         return self.provenance == "measured"
+
+    @property
+    def is_bound(self) -> bool | None:
+        """True or False when known, None when not established."""
+        return None if self.binding == "not established" else self.binding == "bound"
 
     def __str__(self) -> str:
         config = str(self.configuration) + ("" if self.configuration.subshells
                                             else " (no electrons)")
         term = f" {self.term}" if self.term is not None else ""
         extra = f"; Hund's rules would give {self.hund_term}" if self.hund_term else ""
+        if self.binding != "bound":
+            extra += "; not bound as a free ion" if self.binding == "unbound" else (
+                "; binding not established")
+        if self.from_memory:
+            extra += "; transcribed from memory"
         return f"{self.species}: {config}{term} ({self.provenance}{extra})"
 
     def __repr__(self) -> str:
@@ -99,8 +137,25 @@ class _Row(NamedTuple):
     source: str
     note: str
 
+    @property
+    def from_memory(self) -> bool:
+        """Transcribed from memory and not checked against the publication since."""
+        return self.note.startswith("from memory") and "checked against" not in self.note
+
+
+class AnionRow(NamedTuple):
+    """One row of the negative-ion table: bound (with its measured ground level and
+    electron affinity) or unbound, with the source that says so."""
+
+    binding: Binding
+    level: _Row | None
+    affinity_ev: float | None
+    source: str
+    note: str
+
 
 def _row(record: dict[str, str], electrons: int, where: str) -> _Row:
+    """A ground-level row, checked against the electron count it must hold."""
     from ..reading import parse
 
     config = parse(record["configuration"]) if record["configuration"].strip() else (
@@ -134,6 +189,36 @@ def _ion_rows() -> dict[tuple[int, int], _Row]:
         rows[(element.Z, charge)] = _row(r, element.Z - charge,
                                          f"ion_ground_levels.csv {r['symbol']}{charge:+d}")
     return rows
+
+
+@cache
+def anion_rows() -> dict[int, AnionRow]:
+    """The singly charged anions the shipped table speaks about, by Z."""
+    from ..data import elements as _elements
+
+    rows: dict[int, AnionRow] = {}
+    for r in read_table("anion_ground_levels.csv"):
+        element = _elements.by_symbol(r["symbol"])
+        if element is None:  # pragma: no cover - guarded by the data tests
+            raise RuntimeError(f"anion_ground_levels.csv: unknown symbol {r['symbol']!r}")
+        note = r.get("note") or ""
+        if r["status"] == "unbound":
+            rows[element.Z] = AnionRow("unbound", None, None, r["source"], note)
+        else:
+            level = _row(r, element.Z + 1, f"anion_ground_levels.csv {r['symbol']}-")
+            rows[element.Z] = AnionRow("bound", level, float(r["affinity_ev"]),
+                                       r["source"], note)
+    return rows
+
+
+def _binding(Z: int, charge: int) -> tuple[Binding, str]:
+    """Whether the species is bound, and the source that says so ("" for cations)."""
+    if charge >= 0:
+        return "bound", ""
+    if charge <= -2:
+        return "unbound", _NEGATIVE_IONS
+    row = anion_rows().get(Z)
+    return ("not established", "") if row is None else (row.binding, row.source)
 
 
 # ---------------------------------------------------------------------------- the rules
@@ -172,17 +257,44 @@ def outermost_subshell(configuration: Configuration) -> tuple[int, int] | None:
     return _removal_choice(occ) if occ else None
 
 
-def _rule_caution(species: Species, neutral: _Row) -> str:
+#: Be, Mg, Ca, Sr, Ba, Ra and Sc, Y, La, Lu, Ac, Lr (both placements of group 3).
+_GROUPS_2_AND_3 = frozenset({4, 12, 20, 38, 56, 88, 21, 39, 57, 71, 89, 103})
+#: Z ranges of the d block (groups 3-12 of periods 4-7, La and Ac counted with the f rows).
+_D_BLOCK = ((21, 30), (39, 48), (72, 80), (104, 112))
+
+
+def _failure_class(species: Species) -> str | None:
+    """The known failure class of the ion rule this species falls into, if any."""
+    z = species.Z
+    if species.charge < 0 and z in _GROUPS_2_AND_3:
+        return RULE_FAILURE_CLASSES[0]
+    if species.charge > 0 and (57 <= z <= 71 or 89 <= z <= 103):
+        return RULE_FAILURE_CLASSES[1]
+    # beyond 2+ the d subshell lies clearly below the next s (common practice, no source)
+    if 0 < species.charge <= 2 and any(lo <= z <= hi for lo, hi in _D_BLOCK):
+        return RULE_FAILURE_CLASSES[2]
+    return None
+
+
+def _rule_caution(species: Species, neutral: _Row, binding: Binding,
+                  binding_source: str) -> str:
     if species.charge == species.Z:
         return "a bare nucleus: no electrons, so nothing is estimated"
+    if binding == "unbound":
+        what = ("multiply charged atomic anions are not bound as free ions"
+                if species.charge <= -2 else f"{species} is not bound as a free ion")
+        return (f"{what} ({binding_source}); the configuration shown is what the addition "
+                "rule gives, for a state that does not exist as a stable free ion")
     base = ("derived by rule, not measured: no published ground level is shipped for this "
-            "ion, and free ions can differ from the rule (V+ is 3d4, not 3d3 4s1)")
+            "ion. The rule is known to fail for " + "; for ".join(RULE_FAILURE_CLASSES))
+    failure = _failure_class(species)
+    if failure is not None:
+        base += f". This ion is one of the {failure.split(' (')[0]}, so treat it with care"
     if neutral.status == "predicted":
         base += "; the neutral atom's configuration it starts from is itself predicted"
-    if species.charge <= -2:
-        base += "; multiply charged atomic anions are not bound as free ions"
-    elif species.charge == -1:
-        base += "; this anion may not be bound as a free ion"
+    if binding == "not established":
+        base += (f"; whether {species} is bound as a free ion is not established (no "
+                 "measured binding energy is shipped)")
     return base
 
 
@@ -196,12 +308,26 @@ def _ground_level(Z: int, charge: int) -> GroundLevel:
     species = Species.model_construct(
         element=Element.model_construct(Z=row.Z, symbol=row.symbol, name=row.name),
         charge=charge)
-    listed = neutral if charge == 0 else _ion_rows().get((Z, charge))
+    binding, binding_source = _binding(Z, charge)
+    listed: _Row | None
+    if charge == 0:
+        listed = neutral
+    elif charge == -1:
+        anion = anion_rows().get(Z)
+        listed = anion.level if anion is not None else None
+    else:
+        listed = _ion_rows().get((Z, charge))
+    from_memory = False
     if listed is not None:
         config, term = listed.configuration, listed.term
         provenance, source, note = listed.status, listed.source, listed.note
-        caution = None if provenance == "measured" else (
-            "predicted by calculation, not measured; see the note and source")
+        from_memory = listed.from_memory
+        cautions = [] if provenance == "measured" else [
+            "predicted by calculation, not measured; see the note and source"]
+        if from_memory:
+            cautions.append("transcribed from memory from the source named and not yet "
+                            "checked against it")
+        caution = "; ".join(cautions) or None
     else:
         if charge > 0:
             occupancies = remove_electrons(neutral.configuration.occupancies, charge)
@@ -212,13 +338,14 @@ def _ground_level(Z: int, charge: int) -> GroundLevel:
         source += f"; neutral ground configuration from: {neutral.source}"
         config = Configuration.from_checked(occupancies)
         term = hund_ground_term(config)
-        provenance, note = "rule", ""
-        caution = _rule_caution(species, neutral)
+        provenance = "rule"
+        note = "" if binding != "unbound" or charge <= -2 else anion_rows()[Z].note
+        caution = _rule_caution(species, neutral, binding, binding_source)
     hund = hund_ground_term(config)
     return GroundLevel.model_construct(
         species=species, configuration=config, term=term, provenance=provenance,
         source=source, note=note, hund_term=None if term is None or hund == term else hund,
-        caution=caution)
+        caution=caution, binding=binding, from_memory=from_memory)
 
 
 def ground_level(species: SpeciesLike) -> GroundLevel:

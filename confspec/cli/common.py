@@ -48,6 +48,9 @@ def provenance(level: Any) -> str:
     hund_term = getattr(level, "hund_term", None)
     if hund_term is not None:
         parts.append(f"Hund's rules would give {hund_term}")
+    note = getattr(level, "note", None)
+    if note:
+        parts.append(f"note: {note}")
     caution = getattr(level, "caution", None)
     if caution:
         parts.append(f"caution: {caution}")

@@ -124,6 +124,7 @@ def madelung(z: int) -> dict[tuple[int, int], int]:
 ELEMENTS = read("elements.csv")
 GROUND = read("ground_levels.csv")
 IONS = read("ion_ground_levels.csv")
+ANIONS = read("anion_ground_levels.csv")
 ZEFF = read("clementi_raimondi.csv")
 Z_OF = {r["symbol"]: int(r["Z"]) for r in ELEMENTS}
 
@@ -166,7 +167,8 @@ def test_elements_against_ase():
 
 
 @pytest.mark.parametrize(
-    "name", ["elements.csv", "ground_levels.csv", "ion_ground_levels.csv", "clementi_raimondi.csv"]
+    "name", ["elements.csv", "ground_levels.csv", "ion_ground_levels.csv",
+             "anion_ground_levels.csv", "clementi_raimondi.csv"]
 )
 def test_every_row_has_a_source(name):
     # project rule: every row names its published source
@@ -179,7 +181,8 @@ def test_every_row_has_a_source(name):
 
 def test_memory_rows_say_so():
     # project rule: values transcribed from memory say so in the note column
-    for name in ("ground_levels.csv", "ion_ground_levels.csv", "clementi_raimondi.csv"):
+    for name in ("ground_levels.csv", "ion_ground_levels.csv", "anion_ground_levels.csv",
+                 "clementi_raimondi.csv"):
         for r in read(name):
             exact = r["source"].startswith("exact by definition")
             assert exact or "from memory" in r["note"], (name, r)
@@ -270,6 +273,24 @@ def test_madelung_exceptions():
     assert found == MADELUNG_EXCEPTIONS
 
 
+def test_anion_ground_levels_rows():
+    # Andersen, Haugen & Hotop, J. Phys. Chem. Ref. Data 28, 1511 (1999): one row per element
+    # the table speaks about; a bound anion has Z + 1 electrons, a measured level and a
+    # positive electron affinity; an unbound one has neither
+    symbols = [r["symbol"] for r in ANIONS]
+    assert len(symbols) == len(set(symbols))
+    for r in ANIONS:
+        assert r["symbol"] in Z_OF, r
+        if r["status"] == "unbound":
+            assert not (r["configuration"] or r["term"] or r["affinity_ev"]), r
+            continue
+        assert r["status"] == "measured", r
+        electrons = Z_OF[r["symbol"]] + 1
+        occ = _check_configuration(r["configuration"], electrons)
+        _check_term(r["term"], occ, electrons)
+        assert 0 < float(r["affinity_ev"]) < 3.7, r  # Cl- binds most: 3.61 eV (from memory)
+
+
 def test_ion_ground_levels_rows():
     # NIST ASD ion ground levels (anions: Andersen, Haugen & Hotop 1999): electrons = Z - charge
     seen = set()
@@ -283,9 +304,8 @@ def test_ion_ground_levels_rows():
         assert r["status"] in ("measured", "predicted"), r
         occ = _check_configuration(r["configuration"], electrons)
         _check_term(r["term"], occ, electrons)
-    # O2- is not bound as a free ion and must not be listed
-    assert ("O", -2) not in seen
-    assert all(q >= -1 for _, q in seen)
+    # cations only: the singly charged anions have their own table
+    assert all(q >= 1 for _, q in seen)
     # required coverage: Sc..Zn 1+, 2+, 3+; La..Lu 2+, 3+
     for sym in ("Sc", "Ti", "V", "Cr", "Mn", "Fe", "Co", "Ni", "Cu", "Zn"):
         for q in (1, 2, 3):
