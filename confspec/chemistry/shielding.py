@@ -32,8 +32,10 @@ __all__ = [
     "BOHR_RADIUS_ANGSTROM",
     "RYDBERG_ENERGY_EV",
     "Contribution",
+    "Disagreement",
     "ShieldingResult",
     "effective_charge",
+    "slater_disagreement",
     "slater_n_star",
 ]
 
@@ -100,6 +102,7 @@ class ShieldingResult:
     contributions: tuple[Contribution, ...]
     source: str
     caution: str = field(default="")
+    note: str = field(default="")
 
     @property
     def provenance(self) -> str:
@@ -174,14 +177,74 @@ def _slater(config: Configuration, n: int, l: int) -> tuple[Contribution, ...]:
 
 # ---------------------------------------------------------------------------- C & R
 @cache
+def _clementi_raimondi_rows() -> dict[tuple[int, str], dict[str, str]]:
+    return {(int(r["Z"]), r["subshell"]): r for r in read_table("clementi_raimondi.csv")}
+
+
+@cache
 def _clementi_raimondi() -> dict[tuple[int, str], float]:
-    return {(int(r["Z"]), r["subshell"]): float(r["zeff"])
-            for r in read_table("clementi_raimondi.csv")}
+    return {key: float(r["zeff"]) for key, r in _clementi_raimondi_rows().items()}
 
 
 def clementi_raimondi_table() -> dict[tuple[int, str], float]:
     """The shipped Clementi–Raimondi effective charges by (Z, subshell label)."""
     return dict(_clementi_raimondi())
+
+
+@dataclass(frozen=True, slots=True)
+class Disagreement:
+    """How far Slater's Zeff lies from the shipped SCF reference for one kind of subshell:
+    median and largest relative gap |Slater − reference| / reference over ``count``
+    subshells (count 0: no reference to compare with, so the error is unknown)."""
+
+    kind: str  # "s/p", "d" or "f"
+    median: float
+    largest: float
+    count: int
+    reference: str
+
+    def __str__(self) -> str:
+        if not self.count:
+            return (f"for {self.kind} electrons no SCF reference is shipped, so the error "
+                    "is unknown (Slater's rules are known to be worst for d and f)")
+        return (f"for {self.kind} electrons they differ from the {self.reference} by a "
+                f"median {self.median:.0%} (up to {self.largest:.0%}, {self.count} "
+                "subshells)")
+
+
+def _kind(l: int) -> str:
+    return "s/p" if l <= 1 else "d" if l == 2 else "f"
+
+
+@cache
+def slater_disagreement() -> dict[str, Disagreement]:
+    """Slater's rules against the shipped Clementi–Raimondi effective charges of the
+    neutral ground-state atoms, per subshell kind (s/p, d, f), computed from the data so
+    the caution every Slater result carries cannot drift from it. Rows not taken from
+    the paper (H 1s) are left out."""
+    gaps: dict[str, list[float]] = {"s/p": [], "d": [], "f": []}
+    zs: list[int] = []
+    for (z, label), row in _clementi_raimondi_rows().items():
+        if row["note"].startswith("not from the paper"):
+            continue
+        zs.append(z)
+        n, l = _subshell(label)
+        config = ground_level(Species.model_construct(
+            element=as_species(z).element, charge=0)).configuration
+        sigma = sum((c.shielding for c in _slater(config, n, l)), 0.0)
+        reference = float(row["zeff"])
+        gaps[_kind(l)].append(abs((z - sigma) - reference) / reference)
+    where = f"Clementi–Raimondi SCF values shipped for Z = {min(zs)}–{max(zs)}"
+    out: dict[str, Disagreement] = {}
+    for kind, values in gaps.items():
+        values.sort()
+        if not values:
+            out[kind] = Disagreement(kind, 0.0, 0.0, 0, where)
+            continue
+        mid = len(values) // 2
+        median = values[mid] if len(values) % 2 else (values[mid - 1] + values[mid]) / 2
+        out[kind] = Disagreement(kind, median, values[-1], len(values), where)
+    return out
 
 
 # ---------------------------------------------------------------------------- entry point
@@ -236,8 +299,8 @@ def effective_charge(species: SpeciesLike, subshell: str | tuple[int, int], *,
         contributions = _slater(config, n, l)
         # rounded to drop binary noise of 0.35 and 0.85, so 30 − 25.65 prints as 4.35
         sigma = round(sum((c.shielding for c in contributions), 0.0), 10)
-        cautions = ["Slater's rules are an empirical estimate (typically within ~10–20% of "
-                    "SCF values)"]
+        cautions = ["Slater's rules are an empirical estimate: "
+                    + str(slater_disagreement()[_kind(l)])]
         if n >= 7:
             cautions.append(f"n* = 4.2 for n = {n} is our extrapolation: Slater (1930) "
                             "tabulates n* only up to n = 6")
@@ -257,9 +320,19 @@ def effective_charge(species: SpeciesLike, subshell: str | tuple[int, int], *,
             + f": it covers the ground states of the neutral atoms Z = {tabulated[0]}–"
             f"{tabulated[-1]} and their occupied subshells; use model='slater' otherwise",
             text=str(kind))
+    row = _clementi_raimondi_rows()[(kind.Z, label)]
+    caution = ("Clementi–Raimondi effective charges come from single-zeta SCF functions; "
+               "orbital energies from them are hydrogen-like estimates")
+    note = row["note"]
+    if "DOUBTFUL" in note:
+        caution += ("; this value is marked doubtful in the shipped table (see note): "
+                    "verify it against the paper before use")
+    if note.startswith("not from the paper"):
+        caution += "; this value is not from the paper (see source and note)"
+    elif note.startswith("from memory"):
+        caution += "; transcribed from memory (see note)"
+    source = row["source"] if not row["source"].startswith("Clementi") else _CR_SOURCE
     return ShieldingResult(
         species=kind, subshell=label, configuration=config, model="clementi-raimondi",
         Z=kind.Z, zeff=value, sigma=kind.Z - value, n=n, n_star=float(n), contributions=(),
-        source=_CR_SOURCE,
-        caution="Clementi–Raimondi effective charges come from single-zeta SCF functions; "
-                "orbital energies from them are hydrogen-like estimates")
+        source=source, caution=caution, note=note)

@@ -42,6 +42,11 @@ def chemistry_function(name: str) -> Callable[..., Any] | None:
 def provenance(level: Any) -> str:
     """Where a ground level comes from, in words: measured, predicted or rule-based."""
     parts = [str(getattr(level, "provenance", "") or "")]
+    binding = getattr(level, "binding", "bound")
+    if binding == "unbound":
+        parts.insert(0, "not bound as a free ion")
+    elif binding == "not established":
+        parts.insert(0, "binding not established")
     source = getattr(level, "source", None)
     if source:
         parts.append(f"source: {source}")

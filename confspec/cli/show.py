@@ -207,6 +207,7 @@ def _element_symbol(z: int) -> str:
 
 def _shielding_lines(zeff: Callable[..., Any], config: Any, species: Any) -> list[str]:
     lines = [f"  shielding      Slater's rules for {species} (an estimate; Z_eff = Z - S):"]
+    cautions: list[str] = []
     for sub in config.subshells:
         try:
             result = zeff(species, sub.label, configuration=config, model="slater")
@@ -215,4 +216,8 @@ def _shielding_lines(zeff: Callable[..., Any], config: Any, species: Any) -> lis
         parts = " + ".join(str(c) for c in getattr(result, "contributions", ()))
         lines.append(f"    {sub.label:<4} Z_eff = {result.zeff:6.2f}   S = {result.sigma:6.2f}"
                      + (f" = {parts}" if parts else ""))
+        for caution in str(getattr(result, "caution", "") or "").split("; "):
+            if caution and caution not in cautions:
+                cautions.append(caution)
+    lines.extend(f"    caution: {caution}" for caution in cautions)
     return lines

@@ -454,6 +454,16 @@ def render_clementi_raimondi(_: str) -> str:
                   "Slater Z<sub>eff</sub>", "Slater − C–R"], rows)
 
 
+def render_slater_disagreement(_: str) -> str:
+    """Slater's rules against the shipped Clementi–Raimondi values, per subshell kind: the
+    very numbers every Slater result's caution quotes."""
+    from confspec.chemistry.shielding import slater_disagreement
+
+    rows = [(d.kind, str(d.count), f"{d.median:.0%}" if d.count else "—",
+             f"{d.largest:.0%}" if d.count else "—") for d in slater_disagreement().values()]
+    return table(["electrons", "subshells compared", "median gap", "largest gap"], rows)
+
+
 def render_descriptors(_: str) -> str:
     from confspec.chemistry.descriptors import DESCRIPTOR_DOCS
 
@@ -513,6 +523,7 @@ RENDERERS: dict[str, Callable[[str], str]] = {
     "styles": render_styles,
     "madelung-exceptions": render_madelung_exceptions,
     "clementi-raimondi": render_clementi_raimondi,
+    "slater-disagreement": render_slater_disagreement,
     "descriptors": render_descriptors,
     "sources": render_sources,
     "sql-functions": render_sql_functions,

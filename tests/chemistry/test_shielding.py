@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import pytest
 
+import confspec
 from confspec import ConfspecError, ShieldingResult, effective_charge, parse
 from confspec.chemistry.shielding import (
     BOHR_RADIUS_ANGSTROM,
@@ -199,3 +200,43 @@ def test_relativistic_subshells_are_grouped_by_nl() -> None:
     assert jj.zeff == pytest.approx(3.90)
     assert effective_charge("Ne", "2p", configuration="[He] 2s2 2p1/2^2 2p3/2^4",
                             model="clementi-raimondi").zeff == pytest.approx(5.7584)
+
+
+def test_slater_caution_is_the_measured_gap_to_the_shipped_scf_values() -> None:
+    # Slater, Phys. Rev. 36, 57 (1930) against Clementi & Raimondi, J. Chem. Phys. 38, 2686
+    # (1963) as shipped: recomputed here through the public API, row by row
+    import statistics
+
+    from confspec.chemistry.shielding import clementi_raimondi_table, slater_disagreement
+
+    gaps: dict[str, list[float]] = {"s/p": [], "d": []}
+    for (z, label), fitted in clementi_raimondi_table().items():
+        if z == 1:
+            continue  # H 1s is not from the paper (its row says so)
+        slater = confspec.effective_charge(z, label).zeff
+        gaps["d" if label.endswith("d") else "s/p"].append(abs(slater - fitted) / fitted)
+    found = slater_disagreement()
+    for kind, values in gaps.items():
+        assert found[kind].count == len(values)
+        assert found[kind].median == pytest.approx(statistics.median(values))
+        assert found[kind].largest == pytest.approx(max(values))
+    # the audit's finding: every one of the 16 shipped 3d values is more than 20 % off
+    assert found["d"].count == 16 and min(gaps["d"]) > 0.20
+    assert found["f"].count == 0
+    # and each result quotes its own kind
+    assert f"median {found['d'].median:.0%}" in confspec.effective_charge("Fe", "3d").caution
+    assert f"median {found['s/p'].median:.0%}" in confspec.effective_charge("Fe", "4s").caution
+    assert "unknown" in confspec.effective_charge("Gd", "4f").caution
+    assert "~10–20" not in confspec.effective_charge("Fe", "3d").caution
+
+
+def test_row_notes_reach_clementi_raimondi_results() -> None:
+    # the shipped table marks Kr 2p, 3s, 3p doubtful and H 1s as not from the paper
+    for label in ("2p", "3s", "3p"):
+        kr = confspec.effective_charge("Kr", label, model="clementi-raimondi")
+        assert "DOUBTFUL" in kr.note and "doubtful" in kr.caution
+    h = confspec.effective_charge("H", "1s", model="clementi-raimondi")
+    assert h.note.startswith("not from the paper") and "not from the paper" in h.caution
+    assert not h.source.startswith("Clementi & Raimondi, J. Chem.")
+    fe = confspec.effective_charge("Fe", "4s", model="clementi-raimondi")
+    assert "from memory" in fe.note and "doubtful" not in fe.caution
