@@ -20,6 +20,7 @@ from .ground import (
     is_ground_state,
 )
 from .hydrogenic import radial_density, radial_function, radial_nodes
+from .ionization import IonizationEnergy, published_ionization_energy
 from .scf import (
     ConfigurationEnergy,
     ConfigurationRanking,
@@ -48,12 +49,14 @@ from .terms import (
     terms,
 )
 
-__all__ = ["ConfigurationEnergy", "ConfigurationRanking", "Excitation", "GroundLevel", "JJLevel",
+__all__ = ["ConfigurationEnergy", "ConfigurationRanking", "Excitation", "GroundLevel",
+           "IonizationEnergy", "JJLevel",
            "JKTerm", "SCFConvergenceError", "SCFDifference", "SCFOrbital", "SCFResult",
            "SeniorityTerm", "ShieldingResult",
            "Term", "allowed_j", "d_electron_count", "delta_scf", "descriptor_table",
            "descriptors", "effective_charge", "excitations", "ground_level", "ground_state",
            "hund_ground_term", "ionization_energy", "is_ground_state", "jj_levels", "jj_terms",
-           "lowest_configuration", "parse_term", "radial_density", "radial_function",
+           "lowest_configuration", "parse_term", "published_ionization_energy",
+           "radial_density", "radial_function",
            "radial_nodes", "scf", "seniority_terms",
            "term_multiplicities", "terms"]

@@ -3,20 +3,27 @@
 Every value is an ``int``, ``float``, ``bool`` or ``None`` (not applicable / no published
 value), so a list of rows goes straight into any data-frame library. The meaning of each
 key is in :data:`DESCRIPTOR_DOCS`; estimates keep their provenance in the ``is_*`` flags.
+
+Measured quantities (ionization energy, electron affinity, the ground term and the spin it
+implies) and estimates (Slater and Clementi–Raimondi orbital energies, Hund's-rule spin)
+have different names, so a model never takes one for the other: the hydrogen-like orbital
+energies are up to 5.4× the measured first ionization energies (Ne; see the docs' table).
 """
 
 from __future__ import annotations
 
 from collections.abc import Iterable
-from typing import Literal
+from typing import Any, Literal
 
 from ..errors import ConfspecError
 from ..models import Configuration
 from ..physics import CORES_LARGEST_FIRST, NOBLE_CORES, madelung_fill, pauli_limit
 from ..reading import as_species
-from .ground import SpeciesLike, ground_level, outermost_subshell
+from .ground import SpeciesLike, anion_rows, ground_level, outermost_subshell
+from .ionization import published_ionization_energy
 
-__all__ = ["DESCRIPTOR_DOCS", "descriptor_table", "descriptors"]
+__all__ = ["DEPRECATED_KEYS", "DESCRIPTOR_DOCS", "Descriptors", "descriptor_table",
+           "descriptors"]
 
 Value = int | float | bool | None
 
@@ -29,11 +36,20 @@ DESCRIPTOR_DOCS: dict[str, str] = {
     "block": "block of the element as l (0 s, 1 p, 2 d, 3 f): the last subshell of the "
              "Madelung filling of the neutral atom (He counts as s)",
     "valence_n": "highest principal number occupied in the species' ground configuration",
-    "valence_electrons": "electrons outside the largest noble-gas core that holds fewer "
-                         "electrons than the species, not counting full d or f subshells "
-                         "whose n is below valence_n (Zn: 2, Fe: 8, Ga: 3, Pd: 10, Ne: 8, "
-                         "Na+: 8, Fe2+: 6)",
-    "unpaired_electrons": "unpaired electrons of the ground configuration by Hund's first rule",
+    "valence_electrons": "electrons of the species' ground configuration outside the "
+                         "element's noble-gas core (the noble gas before it; none for H, "
+                         "He), leaving out f electrons of the shell n = period − 2 (see "
+                         "f_electrons) and, from group 12 on (Zn, Ga, ... Kr and the rows "
+                         "below), the filled (period − 1)d10: the same count for atoms and "
+                         "ions (Fe: 8, Fe2+: 6, Cu: 11, Zn: 2, Ga: 3, Pd: 10, Ne: 8, Na+: 0, "
+                         "Ti4+: 0, Mo6+: 0, W6+: 0, Eu: 2, Gd: 3, Ce: 3, U: 3)",
+    "f_electrons": "f electrons of the ground configuration outside the element's "
+                   "noble-gas core (Eu: 7, U: 3, W6+: 14)",
+    "unpaired_electrons": "2S of the ground term where one is listed (measured or "
+                          "predicted), so it agrees with term_multiplicity; otherwise "
+                          "Hund's estimate (Ce: 0, from its measured 1G°4)",
+    "unpaired_electrons_hund": "unpaired electrons of the ground configuration by Hund's "
+                               "first rule (an estimate; Ce: 2)",
     "open_subshells": "number of partly filled subshells in the ground configuration",
     "parity_odd": "1 when the ground configuration has odd parity (sum of l is odd), else 0",
     "term_multiplicity": "2S + 1 of the ground term (measured where published)",
@@ -45,44 +61,93 @@ DESCRIPTOR_DOCS: dict[str, str] = {
     "zeff_slater": "effective nuclear charge of an outermost electron by Slater's rules "
                    "(Slater, Phys. Rev. 36, 57 (1930)); an estimate",
     "sigma_slater": "Slater screening constant of that electron (Z − zeff_slater)",
-    "energy_slater_ev": "orbital energy estimate −R∞hc (Zeff/n*)² in eV with Slater's n*",
+    "orbital_energy_slater_ev": "hydrogen-like orbital energy estimate −R∞hc (Zeff/n*)² in "
+                                "eV with Slater's n*; not an ionization energy (Ne: 5.4× "
+                                "the measured IE1)",
     "radius_slater_angstrom": "radius of maximum radial density n*² a₀ / Zeff in ångström",
     "zeff_clementi_raimondi": "Clementi & Raimondi (J. Chem. Phys. 38, 2686 (1963)) SCF "
                               "effective charge of the outermost subshell; None outside "
                               "their table (ions, Z > 36)",
-    "energy_clementi_raimondi_ev": "orbital energy estimate −R∞hc (Zeff/n)² in eV from the "
-                                   "Clementi–Raimondi Zeff",
+    "orbital_energy_clementi_raimondi_ev": "hydrogen-like orbital energy estimate "
+                                           "−R∞hc (Zeff/n)² in eV from the Clementi–"
+                                           "Raimondi Zeff; not an ionization energy",
+    "ionization_energy_ev": "published energy to remove one electron from this species "
+                            "(NIST ASD; IE1 for atoms, IE2 for singly charged ions), None "
+                            "where none ships",
+    "ionization_energy_measured": "True when ionization_energy_ev is measured, False when "
+                                  "NIST gives it as calculated, None when there is none",
+    "electron_affinity_ev": "measured electron affinity of the neutral element (Andersen, "
+                            "Haugen & Hotop 1999 and later), None when its anion is unbound "
+                            "or not established",
+    "anion_bound": "whether the element's singly charged anion is bound (True), known to "
+                   "be unbound (False) or not established (None)",
     "is_measured": "the ground configuration and term are measured (NIST ASD or the "
                    "negative-ion compilation)",
     "is_predicted": "the ground level is a published prediction (e.g. superheavy elements)",
     "is_rule": "the ground level is derived by the ion rules (an approximation)",
 }
 
+#: Keys renamed so that no one mistakes an orbital-energy estimate for an ionization
+#: energy; the old names still read (with a DeprecationWarning) for one release.
+DEPRECATED_KEYS: dict[str, str] = {
+    "energy_slater_ev": "orbital_energy_slater_ev",
+    "energy_clementi_raimondi_ev": "orbital_energy_clementi_raimondi_ev",
+}
 
-def _valence(config: Configuration) -> tuple[int | None, int]:
+
+class Descriptors(dict[str, Value]):
+    """The descriptor row: a plain dict whose renamed keys still read, with a warning."""
+
+    def __missing__(self, key: str) -> Value:
+        new = DEPRECATED_KEYS.get(key)
+        if new is None:
+            raise KeyError(key)
+        import warnings
+
+        warnings.warn(f"the descriptor {key!r} is deprecated; it is an orbital-energy "
+                      f"estimate, now {new!r}", DeprecationWarning, stacklevel=2)
+        return self[new]
+
+    def get(self, key: str, default: Any = None) -> Any:
+        if key in DEPRECATED_KEYS and key not in self:
+            return self.__missing__(key)
+        return super().get(key, default)
+
+
+def _valence(Z: int, config: Configuration) -> tuple[int | None, int, int]:
+    """(highest n occupied, valence electrons, f electrons) as :data:`DESCRIPTOR_DOCS`
+    defines them."""
     occ = config.occupancies
     if not occ:
-        return None, 0
+        return None, 0, 0
     top = max(n for n, _, _ in occ)
-    have = {(n, l): e for n, l, e in occ}
-    inside: set[tuple[int, int]] = set()
-    for symbol in CORES_LARGEST_FIRST:  # the largest core smaller than the species
-        core = NOBLE_CORES[symbol]
-        if (sum(e for _, _, e in core) < config.electron_count
-                and all(have.get((n, l)) == e for n, l, e in core)):
-            inside = {(n, l) for n, l, _ in core}
+    filling = madelung_fill(Z)
+    period = max(n for n, _, _ in filling)
+    last = max(filling, key=lambda t: (t[0] + t[1], t[0]))
+    # from group 12 on, the (period - 1)d10 belongs to the core: the Madelung filling of
+    # the neutral atom ends in p, or in a full d subshell
+    d10_is_core = last[1] == 1 or (last[1] == 2 and last[2] == pauli_limit(2))
+    core: set[tuple[int, int]] = set()
+    for symbol in CORES_LARGEST_FIRST:  # the noble gas before the element
+        shells = NOBLE_CORES[symbol]
+        if sum(e for _, _, e in shells) < Z:
+            core = {(n, l) for n, l, _ in shells}
             break
-    count = 0
+    count = f_count = 0
     for n, l, e in occ:
-        if (n, l) in inside:
+        if (n, l) in core:
             continue
-        if l >= 2 and e == pauli_limit(l) and n < top:
+        if l == 3:
+            f_count += e
+        if l == 3 and n == period - 2:
+            continue
+        if d10_is_core and l == 2 and n == period - 1 and e == pauli_limit(2):
             continue
         count += e
-    return top, count
+    return top, count, f_count
 
 
-def descriptors(species: SpeciesLike) -> dict[str, Value]:
+def descriptors(species: SpeciesLike) -> Descriptors:
     """Numeric features of one species (keys and meanings: :data:`DESCRIPTOR_DOCS`).
 
     >>> d = descriptors("Fe2+")
@@ -96,9 +161,12 @@ def descriptors(species: SpeciesLike) -> dict[str, Value]:
     config = level.configuration
     filling = madelung_fill(kind.Z)
     last = max(filling, key=lambda t: (t[0] + t[1], t[0]))
-    valence_n, valence_electrons = _valence(config)
+    valence_n, valence_electrons, f_electrons = _valence(kind.Z, config)
     term = level.term
-    out: dict[str, Value] = {
+    hund_unpaired = config.unpaired_electrons
+    ionization = published_ionization_energy(kind)
+    anion = anion_rows().get(kind.Z)
+    out = Descriptors({
         "Z": kind.Z,
         "charge": kind.charge,
         "electron_count": kind.electron_count,
@@ -106,7 +174,9 @@ def descriptors(species: SpeciesLike) -> dict[str, Value]:
         "block": last[1],
         "valence_n": valence_n,
         "valence_electrons": valence_electrons,
-        "unpaired_electrons": config.unpaired_electrons,
+        "f_electrons": f_electrons,
+        "unpaired_electrons": hund_unpaired if term is None else term.multiplicity - 1,
+        "unpaired_electrons_hund": hund_unpaired,
         "open_subshells": len(config.open_subshells),
         "parity_odd": int(config.parity == "odd"),
         "term_multiplicity": None if term is None else term.multiplicity,
@@ -114,20 +184,25 @@ def descriptors(species: SpeciesLike) -> dict[str, Value]:
         "term_J": None if term is None or term.J is None else float(term.J),
         "hund_disagrees": level.hund_term is not None,
         "outer_n": None, "outer_l": None,
-        "zeff_slater": None, "sigma_slater": None, "energy_slater_ev": None,
+        "zeff_slater": None, "sigma_slater": None, "orbital_energy_slater_ev": None,
         "radius_slater_angstrom": None,
-        "zeff_clementi_raimondi": None, "energy_clementi_raimondi_ev": None,
+        "zeff_clementi_raimondi": None, "orbital_energy_clementi_raimondi_ev": None,
+        "ionization_energy_ev": None if ionization is None else ionization.energy_ev,
+        "ionization_energy_measured": None if ionization is None else (
+            ionization.provenance == "measured"),
+        "electron_affinity_ev": None if anion is None else anion.affinity_ev,
+        "anion_bound": None if anion is None else anion.binding == "bound",
         "is_measured": level.provenance == "measured",
         "is_predicted": level.provenance == "predicted",
         "is_rule": level.provenance == "rule",
-    }
+    })
     outer = outermost_subshell(config)
     if outer is not None:
         slater = effective_charge(kind, outer)
         out.update({
             "outer_n": outer[0], "outer_l": outer[1],
             "zeff_slater": slater.zeff, "sigma_slater": slater.sigma,
-            "energy_slater_ev": slater.orbital_energy(),
+            "orbital_energy_slater_ev": slater.orbital_energy(),
             "radius_slater_angstrom": slater.radius_estimate(),
         })
         try:
@@ -136,7 +211,7 @@ def descriptors(species: SpeciesLike) -> dict[str, Value]:
             pass  # outside the published table: left as None
         else:
             out["zeff_clementi_raimondi"] = fitted.zeff
-            out["energy_clementi_raimondi_ev"] = fitted.orbital_energy()
+            out["orbital_energy_clementi_raimondi_ev"] = fitted.orbital_energy()
     assert set(out) == set(DESCRIPTOR_DOCS)
     return out
 

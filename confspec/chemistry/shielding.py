@@ -234,7 +234,8 @@ def slater_disagreement() -> dict[str, Disagreement]:
         sigma = sum((c.shielding for c in _slater(config, n, l)), 0.0)
         reference = float(row["zeff"])
         gaps[_kind(l)].append(abs((z - sigma) - reference) / reference)
-    where = f"Clementi–Raimondi SCF values shipped for Z = {min(zs)}–{max(zs)}"
+    where = (f"Clementi–Raimondi self-consistent-field values shipped for Z = "
+             f"{min(zs)}–{max(zs)}")
     out: dict[str, Disagreement] = {}
     for kind, values in gaps.items():
         values.sort()
